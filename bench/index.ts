@@ -1,0 +1,101 @@
+/**
+ * `npm run bench`: how long Tapline's hot computations take, as percentiles over many runs and as
+ * ratios against a baseline measured in the same process (so machine speed cancels out).
+ * Benchmarks report; they never fail a build. Tests never assert timings.
+ */
+import { hash } from '@node-rs/argon2';
+import { computeScope, jobRequestSchema } from '../src/lib/scope';
+
+interface Stats {
+	name: string;
+	runs: number;
+	p50: number;
+	p95: number;
+	p99: number;
+}
+
+function measure(name: string, runs: number, fn: () => unknown): Stats {
+	for (let i = 0; i < Math.min(200, runs); i++) fn(); // warm-up for the JIT
+	const samples: number[] = [];
+	for (let i = 0; i < runs; i++) {
+		const t0 = performance.now();
+		fn();
+		samples.push(performance.now() - t0);
+	}
+	samples.sort((a, b) => a - b);
+	const at = (q: number) =>
+		samples[Math.min(samples.length - 1, Math.floor(q * samples.length))] ?? 0;
+	return { name, runs, p50: at(0.5), p95: at(0.95), p99: at(0.99) };
+}
+
+async function measureAsync(
+	name: string,
+	runs: number,
+	fn: () => Promise<unknown>
+): Promise<Stats> {
+	const samples: number[] = [];
+	for (let i = 0; i < runs; i++) {
+		const t0 = performance.now();
+		await fn();
+		samples.push(performance.now() - t0);
+	}
+	samples.sort((a, b) => a - b);
+	const at = (q: number) =>
+		samples[Math.min(samples.length - 1, Math.floor(q * samples.length))] ?? 0;
+	return { name, runs, p50: at(0.5), p95: at(0.95), p99: at(0.99) };
+}
+
+const request = {
+	make: 'Demo',
+	model: 'Wagon',
+	year: '2019',
+	bodyStyle: 'wagon',
+	fuseFamily: 'mini',
+	batteryType: 'agm',
+	batteryAh: 70,
+	startStop: true,
+	hybridOrEv: false,
+	curtainAirbags: 'yes',
+	cameras: 'front-rear',
+	cameraSupply: 'owner',
+	power: 'hardwired-parking',
+	removeOldUnit: false
+};
+
+const baseline = measure('baseline: JSON round trip of the request', 20_000, () =>
+	JSON.parse(JSON.stringify(request))
+);
+const parsed = jobRequestSchema.parse(request);
+const results = [
+	baseline,
+	measure('validate a job request (zod)', 20_000, () => jobRequestSchema.parse(request)),
+	measure('compute a scope sheet', 20_000, () => computeScope(parsed)),
+	await measureAsync('argon2id hash (sign-up, password reset)', 20, () =>
+		hash('correct horse battery staple', { memoryCost: 19456, timeCost: 2, parallelism: 1 })
+	)
+];
+
+const fmt = (ms: number) => (ms < 1 ? `${(ms * 1000).toFixed(1)} µs` : `${ms.toFixed(2)} ms`);
+console.log('\nTapline benchmarks (lower is faster)\n');
+console.log(
+	[
+		'what'.padEnd(44),
+		'runs'.padStart(6),
+		'p50'.padStart(10),
+		'p95'.padStart(10),
+		'p99'.padStart(10),
+		'p50 ÷ baseline'.padStart(16)
+	].join(' ')
+);
+for (const r of results) {
+	console.log(
+		[
+			r.name.padEnd(44),
+			String(r.runs).padStart(6),
+			fmt(r.p50).padStart(10),
+			fmt(r.p95).padStart(10),
+			fmt(r.p99).padStart(10),
+			`${(r.p50 / baseline.p50).toFixed(1)}x`.padStart(16)
+		].join(' ')
+	);
+}

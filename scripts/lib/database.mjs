@@ -1,0 +1,58 @@
+// Databases on the cluster: create, drop, migrate, seed. Loaded after `npm ci`, so it may use packages.
+import { drizzle } from 'drizzle-orm/node-postgres';
+import { migrate } from 'drizzle-orm/node-postgres/migrator';
+import pg from 'pg';
+import path from 'node:path';
+import { ROOT } from './config.mjs';
+import { log, run } from './system.mjs';
+
+const ident = (name) => {
+	if (!/^[a-z_][a-z0-9_]*$/.test(name)) throw new Error(`Unsafe database name: ${name}`);
+	return `"${name}"`;
+};
+
+async function withAdmin(adminUrl, fn) {
+	const client = new pg.Client({ connectionString: adminUrl });
+	await client.connect();
+	try {
+		return await fn(client);
+	} finally {
+		await client.end();
+	}
+}
+
+/** Creates the database unless it exists (optionally as a copy of a template). */
+export async function ensureDatabase(adminUrl, name, template) {
+	await withAdmin(adminUrl, async (client) => {
+		const { rowCount } = await client.query('SELECT 1 FROM pg_database WHERE datname = $1', [name]);
+		if (rowCount) return;
+		await client.query(
+			`CREATE DATABASE ${ident(name)}${template ? ` TEMPLATE ${ident(template)}` : ''}`
+		);
+	});
+}
+
+/** Drops a database, closing any connection still open to it. */
+export async function dropDatabase(adminUrl, name) {
+	await withAdmin(adminUrl, (client) =>
+		client.query(`DROP DATABASE IF EXISTS ${ident(name)} WITH (FORCE)`)
+	);
+}
+
+/** Applies the committed drizzle migrations. */
+export async function migrateDatabase(url) {
+	const pool = new pg.Pool({ connectionString: url, max: 1 });
+	try {
+		await migrate(drizzle(pool), { migrationsFolder: path.join(ROOT, 'drizzle') });
+	} finally {
+		await pool.end();
+	}
+}
+
+/** Loads the demo scenario when the database has no accounts yet. */
+export function seedDatabase(url) {
+	log('Seeding the demo scenario (skipped when accounts exist)…');
+	run(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['seed/index.ts'], {
+		env: { ...process.env, DATABASE_URL: url }
+	});
+}

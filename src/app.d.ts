@@ -1,0 +1,16 @@
+// See https://svelte.dev/docs/kit/types#app.d.ts
+import type { SessionUser, SessionInfo } from '$lib/server/auth';
+
+declare global {
+	namespace App {
+		interface Error {
+			message: string;
+		}
+		interface Locals {
+			user: SessionUser | null;
+			session: SessionInfo | null;
+		}
+	}
+}
+
+export {};

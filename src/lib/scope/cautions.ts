@@ -1,0 +1,157 @@
+/**
+ * Safety and legal cautions raised by a job's answers. They guide, they do not rule: each body
+ * ends by deferring to local road rules and licensed practice.
+ */
+import type { JobRequestInput } from './request';
+
+export type CautionSeverity = 'danger' | 'warning' | 'info';
+
+export type CautionCode =
+	| 'curtain-airbags'
+	| 'hybrid-ev-12v'
+	| 'start-stop-battery'
+	| 'windscreen-position'
+	| 'fuse-tap-orientation'
+	| 'safety-circuits'
+	| 'ground-point'
+	| 'obd-always-on'
+	| 'rear-window'
+	| 'drilling-consent'
+	| 'consumer-guarantees';
+
+export interface Caution {
+	code: CautionCode;
+	severity: CautionSeverity;
+	title: string;
+	body: string;
+}
+
+/** Closes every caution body: this guide never overrides the law or a licensed professional. */
+export const DEFER_TO_LOCAL_RULES =
+	'Where local road rules, vehicle standards or licensed practice say otherwise, follow them.';
+
+// Most serious first, so the sheet leads with what can hurt someone.
+const SEVERITY_ORDER: Readonly<Record<CautionSeverity, number>> = {
+	danger: 0,
+	warning: 1,
+	info: 2
+};
+
+export type CautionInput = Pick<
+	JobRequestInput,
+	'curtainAirbags' | 'hybridOrEv' | 'startStop' | 'batteryType' | 'cameras' | 'power'
+>;
+
+/**
+ * The cautions that apply to a job, most serious first.
+ * @param input the answers that trigger cautions
+ */
+export function cautionsFor(input: CautionInput): Caution[] {
+	const cautions: Caution[] = [];
+	const add = (code: CautionCode, severity: CautionSeverity, title: string, body: string) =>
+		cautions.push({ code, severity, title, body: `${body} ${DEFER_TO_LOCAL_RULES}` });
+	const hasFuseTaps = input.power === 'hardwired-switched' || input.power === 'hardwired-parking';
+	const hasRear = input.cameras !== 'front';
+
+	if (input.curtainAirbags !== 'no') {
+		add(
+			'curtain-airbags',
+			'danger',
+			'Route cables behind the curtain airbags',
+			`${input.curtainAirbags === 'unknown' ? 'Treat the car as having curtain airbags until checked. ' : ''}` +
+				'Curtain airbags fill along the roof edge between the pillars. Cables go behind the ' +
+				'airbag, tied to the factory harness, never across its face or where trim swings open ' +
+				"when it fires. The vehicle's service manual shows where it sits."
+		);
+	}
+	if (input.hybridOrEv) {
+		add(
+			'hybrid-ev-12v',
+			'danger',
+			'Hybrid or electric vehicle: 12 V side only',
+			'Work only on the 12 V accessory circuits; orange high-voltage cabling and its connectors ' +
+				'are left alone. The 12 V battery in these cars is often small and only charged while the ' +
+				'car is switched on, so parking mode can flatten it quickly.'
+		);
+	}
+	if (hasFuseTaps) {
+		add(
+			'safety-circuits',
+			'danger',
+			'Never tap a safety circuit',
+			'Leave airbag (SRS), ABS and stability control, engine management, fuel pump and steering ' +
+				'fuses alone. Choose an accessory circuit such as the socket, radio or interior lights.'
+		);
+	}
+	if (input.startStop || input.batteryType === 'agm' || input.batteryType === 'efb') {
+		add(
+			'start-stop-battery',
+			'warning',
+			'Start-stop, AGM or EFB battery',
+			'These batteries already work at partial charge, so set a higher cut-off voltage. Cars ' +
+				'with a current sensor on the negative battery terminal must not have accessories ' +
+				'grounded to the negative post, or the charging system loses track of the battery.'
+		);
+	}
+	add(
+		'windscreen-position',
+		'warning',
+		'Where the front camera goes on the windscreen',
+		"Mount it inside the area the wipers sweep and outside the driver's line of sight, clear of " +
+			'the mirror as it adjusts and of any rain sensor or driver-assist camera. In Australia see ' +
+			"the Australian Road Rules as each state adopts them, r 297 (driver's clear view) and " +
+			"r 299 (display units), and the state's vehicle standards on anything obscuring the view."
+	);
+	if (hasFuseTaps) {
+		add(
+			'fuse-tap-orientation',
+			'warning',
+			'Fit the fuse tap on the supply side',
+			'Pull the fuse and probe both terminals of the empty slot: the live one is the supply side, ' +
+				"and the tap's common blade goes there. Fitted the other way, the original fuse carries " +
+				'its own load plus the camera. Test a permanent supply with the car locked and left, ' +
+				'as some circuits switch off after the car goes to sleep.'
+		);
+		add(
+			'ground-point',
+			'warning',
+			'Ground to bare metal',
+			'Use a bare-metal body stud or factory ground bolt near the fuse box, not painted metal, ' +
+				'an airbag module mount or a seat-belt anchor bolt.'
+		);
+	}
+	if (input.power === 'obd') {
+		add(
+			'obd-always-on',
+			'warning',
+			'OBD power never switches off',
+			'The OBD port is live with the car locked, so the OBD cable must have a low-voltage ' +
+				'cut-off set high enough to leave starting reserve. Unplug it if the car will sit for weeks.'
+		);
+	}
+	if (hasRear) {
+		add(
+			'rear-window',
+			'info',
+			'Rear camera placement',
+			'Keep the rear camera and its adhesive clear of the demister lines, and of the wiper if ' +
+				'the rear window has one.'
+		);
+		add(
+			'drilling-consent',
+			'info',
+			'No drilling without your consent',
+			'Most rear cables pass through existing grommets. If a new hole is needed, that is a ' +
+				'permanent change to the car and the installer asks first.'
+		);
+	}
+	add(
+		'consumer-guarantees',
+		'info',
+		'Your consumer guarantees',
+		'In Australia, guarantees that work is done with due care and skill cannot be excluded ' +
+			'by any warranty terms (ACCC guidance for motor vehicle repairs). Ask the vehicle maker or ' +
+			"dealer how fitting an accessory bears on the car's own warranty."
+	);
+	return cautions.sort((a, b) => SEVERITY_ORDER[a.severity] - SEVERITY_ORDER[b.severity]);
+}

@@ -1,0 +1,79 @@
+import { describe, expect, it } from 'vitest';
+import { ADELAIDE_MARKET, computeScope, jobRequestSchema, type JobRequestInput } from './index';
+
+// Invented demo job; no real make or model.
+const JOB: JobRequestInput = jobRequestSchema.parse({
+	make: 'Demo Motors',
+	model: 'Estate',
+	year: '2020',
+	bodyStyle: 'wagon',
+	fuseFamily: 'low-profile-mini',
+	batteryType: 'flooded',
+	batteryAh: 60,
+	curtainAirbags: 'yes',
+	cameras: 'front-rear',
+	cameraSupply: 'owner',
+	power: 'hardwired-parking'
+});
+
+describe('computeScope', () => {
+	it('assembles labour, parts, parking budget, price and cautions', () => {
+		const sheet = computeScope(JOB);
+		// Source: common trade practice — front + rear through a tailgate 90–150 min, plus our
+		// 10–20 min parking-mode test.
+		expect([sheet.labour.minMinutes, sheet.labour.maxMinutes]).toEqual([100, 170]);
+		// Source: common trade practice — wagon rear run 5–6.5 m, 6 m stock -> 1 m extension.
+		expect(sheet.rearCable).toEqual({ minMetres: 5, maxMetres: 6.5, extensionMetres: 1 });
+		// Source: common trade practice — two taps of the car's family for parking mode.
+		expect(sheet.parts.find((p) => p.code === 'fuse-tap-low-profile-mini')?.quantity).toBe(2);
+		// Source: the worked example in battery.spec.ts (BCI table; 60 Ah, 12.2 V default cut-off
+		// for flooded, 250 mA default draw) -> 116.96 h.
+		expect(sheet.parking?.cutOffVolts).toBe(12.2);
+		expect(sheet.parking?.cutOffDefaulted).toBe(true);
+		expect(sheet.parking?.drawMilliamps).toBe(250);
+		expect(sheet.parking?.budget.hours).toBeCloseTo(116.96, 2);
+		expect(sheet.cautions[0]?.code).toBe('curtain-airbags');
+		expect(sheet.price.currency).toBe('AUD');
+	});
+
+	it('prices the demo market consistently with its parts and GST', () => {
+		const sheet = computeScope(JOB, ADELAIDE_MARKET);
+		const partsExGst = sheet.price.parts.reduce((s, p) => s + p.totalCents, 0);
+		expect(sheet.price.partsExGst).toBe(partsExGst);
+		// Source: ATO — GST is 10 % and is 1/11 of the inclusive price; our half-up rounding.
+		const minEx = sheet.price.labourExGst.min + partsExGst;
+		expect(sheet.price.totalIncGst.min).toBe(minEx + Math.round(minEx / 10));
+		expect(sheet.price.gstIncluded.min).toBe(Math.round(sheet.price.totalIncGst.min / 11));
+		// Source: our stated rule — 110 $/h x 100 min = 18333.3 c -> 18333 (demo rate, invented).
+		expect(sheet.price.labourExGst.min).toBe(18_333);
+	});
+
+	it('uses the stricter default cut-off for start-stop cars and honours an owner choice', () => {
+		// Source: common trade practice — higher cut-off for start-stop/AGM/EFB.
+		expect(computeScope({ ...JOB, startStop: true }).parking?.cutOffVolts).toBe(12.4);
+		const chosen = computeScope({ ...JOB, cutOffVolts: 12.3, parkingDrawMilliamps: 120 });
+		expect(chosen.parking).toMatchObject({
+			cutOffVolts: 12.3,
+			cutOffDefaulted: false,
+			drawMilliamps: 120,
+			drawDefaulted: false
+		});
+	});
+
+	it('has no parking budget or rear cable when they do not apply', () => {
+		// Source: common trade practice — a socket-powered camera stops with the ignition.
+		const sheet = computeScope({ ...JOB, power: 'socket', cameras: 'front' });
+		expect(sheet.parking).toBeNull();
+		expect(sheet.rearCable).toBeNull();
+		// Source: SAE J1962 — OBD power is always on, so parking is budgeted.
+		expect(computeScope({ ...JOB, power: 'obd' }).parking).not.toBeNull();
+	});
+
+	it('prices an installer-supplied camera at the budget', () => {
+		const sheet = computeScope({ ...JOB, cameraSupply: 'installer', cameraBudgetCents: 30_000 });
+		// Source: the job contract — the owner's budget is GST-inclusive and added as is.
+		expect(sheet.price.cameraIncGst).toBe(30_000);
+		const ownerSupplied = computeScope(JOB);
+		expect(sheet.price.totalIncGst.min - ownerSupplied.price.totalIncGst.min).toBe(30_000);
+	});
+});

@@ -1,0 +1,83 @@
+/**
+ * The job scope sheet: labour, parts, parking-mode budget, price guide and cautions, computed
+ * from the owner's answers. Pure: no I/O, safe in the browser and in tests.
+ */
+import {
+	DEFAULT_PARKING_DRAW_MILLIAMPS,
+	defaultCutOffVolts,
+	parkingBudget,
+	type ParkingBudget
+} from './battery';
+import { cautionsFor, type Caution } from './cautions';
+import { estimateLabour, type LabourEstimate } from './labour';
+import { listParts, rearCableNeed, type Part, type RearCableNeed } from './parts';
+import { ADELAIDE_MARKET, priceGuide, type Market, type PriceGuide } from './price';
+import type { JobRequestInput } from './request';
+
+export * from './battery';
+export * from './cautions';
+export * from './fuses';
+export * from './labour';
+export * from './parts';
+export * from './price';
+export * from './request';
+
+export interface ParkingScope {
+	drawMilliamps: number;
+	/** True when the owner left the draw blank and the default was used. */
+	drawDefaulted: boolean;
+	cutOffVolts: number;
+	/** True when the owner left the cut-off blank and the battery-type default was used. */
+	cutOffDefaulted: boolean;
+	budget: ParkingBudget;
+}
+
+export interface ScopeSheet {
+	labour: LabourEstimate;
+	parts: Part[];
+	/** Null for a front-only job. */
+	rearCable: RearCableNeed | null;
+	/** Null unless the camera stays powered while parked (hard-wired parking mode or OBD). */
+	parking: ParkingScope | null;
+	price: PriceGuide;
+	cautions: Caution[];
+}
+
+/**
+ * Builds the scope sheet for a validated job request.
+ * @param input a request that passed `jobRequestSchema`
+ * @param market rates and prices; the Adelaide demo market by default
+ */
+export function computeScope(input: JobRequestInput, market: Market = ADELAIDE_MARKET): ScopeSheet {
+	const labour = estimateLabour(input);
+	const parts = listParts(input);
+	const cameraBudgetCents = input.cameraSupply === 'installer' ? (input.cameraBudgetCents ?? 0) : 0;
+	return {
+		labour,
+		parts,
+		rearCable: input.cameras === 'front' ? null : rearCableNeed(input.bodyStyle),
+		parking: parkingScope(input),
+		price: priceGuide(labour, parts, market, cameraBudgetCents),
+		cautions: cautionsFor(input)
+	};
+}
+
+function parkingScope(input: JobRequestInput): ParkingScope | null {
+	if (input.power !== 'hardwired-parking' && input.power !== 'obd') return null;
+	const drawMilliamps = input.parkingDrawMilliamps ?? DEFAULT_PARKING_DRAW_MILLIAMPS;
+	const cutOffVolts = input.cutOffVolts ?? defaultCutOffVolts(input.batteryType, input.startStop);
+	return {
+		drawMilliamps,
+		drawDefaulted: input.parkingDrawMilliamps === undefined,
+		cutOffVolts,
+		cutOffDefaulted: input.cutOffVolts === undefined,
+		budget: parkingBudget({
+			capacityAh: input.batteryAh,
+			bodyStyle: input.bodyStyle,
+			batteryType: input.batteryType,
+			startStop: input.startStop,
+			cutOffVolts,
+			cameraDrawAmps: drawMilliamps / 1000
+		})
+	};
+}

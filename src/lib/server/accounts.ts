@@ -1,0 +1,239 @@
+/**
+ * Accounts: sign-up, sign-in checks, e-mail verification, password reset, admin invitations.
+ * Every change that sends mail writes the message to the outbox in the same transaction.
+ */
+import { createHash, randomBytes } from 'node:crypto';
+import { and, eq, gt, isNull } from 'drizzle-orm';
+import { endAllSessions } from './auth';
+import { db, type Tx } from './db';
+import { emailToken, user, type Role, type User } from './db/schema';
+import { queueEmail } from './mail';
+import { hashPassword, verifyPassword } from './password';
+
+const VERIFY_TTL_MS = 48 * 3600_000;
+const RESET_TTL_MS = 3600_000;
+
+type TokenPurpose = 'verify-email' | 'reset-password';
+
+/** Account fields safe to hand to callers (never the password hash). */
+export type AccountSummary = Pick<User, 'id' | 'email' | 'role' | 'displayName'>;
+
+/** E-mail addresses compare case-insensitively; we store them lower-cased and trimmed. */
+export const normaliseEmail = (email: string) => email.trim().toLowerCase();
+
+const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
+
+async function issueToken(tx: Tx, userId: string, purpose: TokenPurpose, ttlMs: number) {
+	const token = randomBytes(32).toString('base64url');
+	await tx.insert(emailToken).values({
+		tokenHash: hashToken(token),
+		userId,
+		purpose,
+		expiresAt: new Date(Date.now() + ttlMs)
+	});
+	return token;
+}
+
+async function takeToken(tx: Tx, token: string, purpose: TokenPurpose) {
+	const [row] = await tx
+		.update(emailToken)
+		.set({ usedAt: new Date() })
+		.where(
+			and(
+				eq(emailToken.tokenHash, hashToken(token)),
+				eq(emailToken.purpose, purpose),
+				isNull(emailToken.usedAt),
+				gt(emailToken.expiresAt, new Date())
+			)
+		)
+		.returning({ userId: emailToken.userId });
+	return row?.userId ?? null;
+}
+
+export interface NewAccount {
+	email: string;
+	password: string;
+	displayName: string;
+	role: Extract<Role, 'owner' | 'installer'>;
+}
+
+/**
+ * Creates an owner or installer account and queues the verification e-mail.
+ * Returns `'email-taken'` when the address already has an account.
+ */
+export async function createAccount(
+	input: NewAccount,
+	origin: string
+): Promise<{ user: AccountSummary; emailIds: string[] } | 'email-taken'> {
+	const email = normaliseEmail(input.email);
+	const passwordHash = await hashPassword(input.password);
+	return db.transaction(async (tx) => {
+		const [created] = await tx
+			.insert(user)
+			.values({
+				id: crypto.randomUUID(),
+				email,
+				passwordHash,
+				role: input.role,
+				displayName: input.displayName.trim()
+			})
+			.onConflictDoNothing({ target: user.email })
+			.returning({
+				id: user.id,
+				email: user.email,
+				role: user.role,
+				displayName: user.displayName
+			});
+		if (!created) return 'email-taken' as const;
+		const token = await issueToken(tx, created.id, 'verify-email', VERIFY_TTL_MS);
+		const emailId = await queueEmail(tx, email, {
+			template: 'verify-email',
+			data: { displayName: created.displayName, url: `${origin}/verify-email?token=${token}` }
+		});
+		return { user: created, emailIds: [emailId] };
+	});
+}
+
+// A real argon2id hash of a random string: checking against it when the account does not exist
+// costs the same time as a real check, so response times do not reveal which addresses exist.
+let decoyHash: Promise<string> | undefined;
+
+/** Checks an e-mail and password; returns the account or null, in constant-ish time. */
+export async function authenticate(
+	email: string,
+	password: string
+): Promise<AccountSummary | null> {
+	const [found] = await db
+		.select({
+			id: user.id,
+			email: user.email,
+			role: user.role,
+			displayName: user.displayName,
+			passwordHash: user.passwordHash
+		})
+		.from(user)
+		.where(eq(user.email, normaliseEmail(email)));
+	if (!found) {
+		decoyHash ??= hashPassword(randomBytes(16).toString('hex'));
+		await verifyPassword(await decoyHash, password);
+		return null;
+	}
+	if (!(await verifyPassword(found.passwordHash, password))) return null;
+	const { passwordHash: _hash, ...summary } = found;
+	return summary;
+}
+
+/** Marks the address of the token's account verified; false for an unknown, used or expired token. */
+export async function verifyEmailToken(token: string): Promise<boolean> {
+	return db.transaction(async (tx) => {
+		const userId = await takeToken(tx, token, 'verify-email');
+		if (!userId) return false;
+		await tx.update(user).set({ emailVerifiedAt: new Date() }).where(eq(user.id, userId));
+		return true;
+	});
+}
+
+/** Queues a fresh verification e-mail for an unverified account. */
+export async function resendVerification(userId: string, origin: string): Promise<string[]> {
+	return db.transaction(async (tx) => {
+		const [found] = await tx
+			.select({ email: user.email, displayName: user.displayName, verified: user.emailVerifiedAt })
+			.from(user)
+			.where(eq(user.id, userId));
+		if (!found || found.verified) return [];
+		const token = await issueToken(tx, userId, 'verify-email', VERIFY_TTL_MS);
+		return [
+			await queueEmail(tx, found.email, {
+				template: 'verify-email',
+				data: { displayName: found.displayName, url: `${origin}/verify-email?token=${token}` }
+			})
+		];
+	});
+}
+
+/**
+ * Queues a reset link when the address has an account. Says nothing either way to the caller's
+ * visitor, so the form cannot be used to find out who has an account.
+ */
+export async function requestPasswordReset(email: string, origin: string): Promise<string[]> {
+	return db.transaction(async (tx) => {
+		const [found] = await tx
+			.select({ id: user.id, email: user.email, displayName: user.displayName })
+			.from(user)
+			.where(eq(user.email, normaliseEmail(email)));
+		if (!found) return [];
+		const token = await issueToken(tx, found.id, 'reset-password', RESET_TTL_MS);
+		return [
+			await queueEmail(tx, found.email, {
+				template: 'reset-password',
+				data: { displayName: found.displayName, url: `${origin}/reset-password?token=${token}` }
+			})
+		];
+	});
+}
+
+/** Sets a new password from a reset token and signs the account out everywhere. */
+export async function resetPassword(token: string, newPassword: string): Promise<boolean> {
+	const passwordHash = await hashPassword(newPassword);
+	const userId = await db.transaction(async (tx) => {
+		const id = await takeToken(tx, token, 'reset-password');
+		if (!id) return null;
+		// A working reset link proves control of the mailbox, so it verifies the address too.
+		await tx.update(user).set({ passwordHash, emailVerifiedAt: new Date() }).where(eq(user.id, id));
+		return id;
+	});
+	if (!userId) return false;
+	await endAllSessions(userId);
+	return true;
+}
+
+/**
+ * Creates an admin account on behalf of another admin. The new admin gets an e-mail with a link to
+ * set their own password; nobody ever knows the random one it starts with.
+ */
+export async function createAdminAccount(
+	invitedBy: AccountSummary,
+	input: { email: string; displayName: string },
+	origin: string
+): Promise<{ user: AccountSummary; emailIds: string[] } | 'email-taken'> {
+	if (invitedBy.role !== 'admin') throw new Error('Only an admin can create an admin');
+	const passwordHash = await hashPassword(randomBytes(24).toString('base64url'));
+	return db.transaction(async (tx) => {
+		const [created] = await tx
+			.insert(user)
+			.values({
+				id: crypto.randomUUID(),
+				email: normaliseEmail(input.email),
+				passwordHash,
+				role: 'admin',
+				displayName: input.displayName.trim()
+			})
+			.onConflictDoNothing({ target: user.email })
+			.returning({
+				id: user.id,
+				email: user.email,
+				role: user.role,
+				displayName: user.displayName
+			});
+		if (!created) return 'email-taken' as const;
+		const token = await issueToken(tx, created.id, 'reset-password', RESET_TTL_MS);
+		const emailId = await queueEmail(tx, created.email, {
+			template: 'admin-invite',
+			data: {
+				displayName: created.displayName,
+				invitedBy: invitedBy.displayName,
+				url: `${origin}/reset-password?token=${token}`
+			}
+		});
+		return { user: created, emailIds: [emailId] };
+	});
+}
+
+/** Admin accounts, newest first, for the admin team page. */
+export async function listAdmins(): Promise<AccountSummary[]> {
+	return db
+		.select({ id: user.id, email: user.email, role: user.role, displayName: user.displayName })
+		.from(user)
+		.where(eq(user.role, 'admin'))
+		.orderBy(user.createdAt);
+}

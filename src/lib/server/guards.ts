@@ -1,0 +1,37 @@
+import { error, redirect } from '@sveltejs/kit';
+import { getRequestEvent } from '$app/server';
+import type { SessionUser } from './auth';
+import type { Role } from './db/schema';
+
+/** URL areas and who may enter them; checked in hooks for every request, actions included. */
+export const ROLE_AREAS: ReadonlyArray<{ prefix: string; role: Role }> = [
+	{ prefix: '/owner', role: 'owner' },
+	{ prefix: '/installer', role: 'installer' },
+	{ prefix: '/admin', role: 'admin' }
+];
+
+/** The area a path belongs to, if any. */
+export function areaFor(pathname: string) {
+	return ROLE_AREAS.find((a) => pathname === a.prefix || pathname.startsWith(`${a.prefix}/`));
+}
+
+/** Where to send a visitor with no session: the sign-in page, returning here afterwards. */
+export function signInUrl(url: URL) {
+	return `/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`;
+}
+
+/**
+ * The signed-in user, if they hold one of the roles; otherwise redirects to sign-in (no session)
+ * or fails with 403 (wrong role). Call it at the top of every load and action that needs a role.
+ */
+export function requireRole(...roles: Role[]): SessionUser {
+	const { locals, url } = getRequestEvent();
+	if (!locals.user) redirect(303, signInUrl(url));
+	if (roles.length > 0 && !roles.includes(locals.user.role)) {
+		error(403, 'This part of Tapline is for another kind of account.');
+	}
+	return locals.user;
+}
+
+/** The home page of each role. */
+export const homeFor = (role: Role) => `/${role}`;

@@ -1,0 +1,92 @@
+/**
+ * E-mail templates. Each renders a subject, an HTML part and a plain-text part from the same words,
+ * so a message reads the same in any mail client.
+ */
+
+export interface RenderedEmail {
+	subject: string;
+	html: string;
+	text: string;
+}
+
+interface Block {
+	heading: string;
+	paragraphs: string[];
+	action?: { label: string; url: string };
+	footnote?: string;
+}
+
+export type EmailTemplate =
+	| { template: 'verify-email'; data: { displayName: string; url: string } }
+	| { template: 'reset-password'; data: { displayName: string; url: string } }
+	| { template: 'admin-invite'; data: { displayName: string; invitedBy: string; url: string } };
+
+const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+
+function renderBlock(subject: string, block: Block): RenderedEmail {
+	const paras = block.paragraphs
+		.map((p) => `<p style="margin:0 0 14px;line-height:1.55">${escapeHtml(p)}</p>`)
+		.join('');
+	const action = block.action
+		? `<p style="margin:22px 0"><a href="${escapeHtml(block.action.url)}" style="background:#172030;color:#ffffff;padding:12px 20px;border-radius:6px;text-decoration:none;font-weight:700">${escapeHtml(block.action.label)}</a></p>` +
+			`<p style="margin:0 0 14px;font-size:13px;color:#56677c">Or paste this address into your browser: ${escapeHtml(block.action.url)}</p>`
+		: '';
+	const foot = block.footnote
+		? `<p style="margin:18px 0 0;font-size:13px;color:#56677c">${escapeHtml(block.footnote)}</p>`
+		: '';
+	const html = `<!doctype html><html lang="en-AU"><body style="margin:0;background:#f4f6f8;font-family:Nunito,Arial,sans-serif;color:#172030">
+<div style="max-width:560px;margin:0 auto;padding:24px">
+<p style="font-weight:900;font-size:20px;margin:0 0 16px;color:#172030">Tap<span style="color:#c96106">line</span></p>
+<div style="background:#ffffff;border:1px solid #cbd3dc;border-radius:12px;padding:24px">
+<h1 style="font-size:20px;margin:0 0 14px">${escapeHtml(block.heading)}</h1>${paras}${action}${foot}
+</div>
+<p style="font-size:12px;color:#74859a;margin:16px 0 0">Tapline connects car owners with vetted installers for hard-wired dash cameras.</p>
+</div></body></html>`;
+	const text = [
+		block.heading,
+		'',
+		...block.paragraphs.flatMap((p) => [p, '']),
+		...(block.action ? [`${block.action.label}: ${block.action.url}`, ''] : []),
+		...(block.footnote ? [block.footnote, ''] : []),
+		'--',
+		'Tapline connects car owners with vetted installers for hard-wired dash cameras.'
+	].join('\n');
+	return { subject, html, text };
+}
+
+/** Renders one of Tapline's e-mails. */
+export function renderEmail(message: EmailTemplate): RenderedEmail {
+	switch (message.template) {
+		case 'verify-email':
+			return renderBlock('Confirm your e-mail address for Tapline', {
+				heading: `Hi ${message.data.displayName}, please confirm your address`,
+				paragraphs: [
+					'You signed up to Tapline. Confirm this e-mail address so we can send you quotes, bookings and receipts.'
+				],
+				action: { label: 'Confirm my address', url: message.data.url },
+				footnote: 'The link works for 48 hours. If you did not sign up, ignore this message.'
+			});
+		case 'reset-password':
+			return renderBlock('Reset your Tapline password', {
+				heading: `Hi ${message.data.displayName}, here is your reset link`,
+				paragraphs: [
+					'Someone (hopefully you) asked to reset the password of this Tapline account.',
+					'Choosing a new password signs the account out everywhere else.'
+				],
+				action: { label: 'Choose a new password', url: message.data.url },
+				footnote:
+					'The link works for one hour and only once. If you did not ask, ignore this message: your password stays as it is.'
+			});
+		case 'admin-invite':
+			return renderBlock('You have been made a Tapline admin', {
+				heading: `Hi ${message.data.displayName}, welcome to the admin team`,
+				paragraphs: [
+					`${message.data.invitedBy} created an admin account for you on Tapline.`,
+					'Set your password to sign in. Admins vet installers, settle disputes and watch held funds.'
+				],
+				action: { label: 'Set my password', url: message.data.url },
+				footnote:
+					'The link works for one hour. Ask for a new one from the sign-in page if it runs out.'
+			});
+	}
+}

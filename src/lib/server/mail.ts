@@ -1,0 +1,97 @@
+/**
+ * Outgoing e-mail. Messages are written to the `email_outbox` table inside the caller's transaction
+ * and delivered by the background worker (see `queue.ts`), which retries with back-off. Delivery
+ * locks the row and marks it sent in the same transaction, so two workers never both send it; the
+ * Message-ID is derived from the row id, so a rare resend after a crash mid-send is recognisable as
+ * the same message by the receiving server.
+ */
+import { and, eq, isNull, lt, or, sql } from 'drizzle-orm';
+import nodemailer, { type Transporter } from 'nodemailer';
+import { env } from '$env/dynamic/private';
+import { db, type Tx } from './db';
+import { emailOutbox } from './db/schema';
+import { renderEmail, type EmailTemplate } from './mail-templates';
+
+/** After this many failed attempts a message stays in the outbox for an admin to look at. */
+export const MAX_DELIVERY_ATTEMPTS = 10;
+
+let transport: Transporter | undefined;
+
+function getTransport(): Transporter {
+	transport ??= nodemailer.createTransport({
+		host: env.SMTP_HOST ?? '127.0.0.1',
+		port: Number(env.SMTP_PORT ?? 2525),
+		secure: env.SMTP_SECURE === 'true',
+		ignoreTLS: env.SMTP_SECURE !== 'true' && env.SMTP_REQUIRE_TLS !== 'true',
+		auth: env.SMTP_USER ? { user: env.SMTP_USER, pass: env.SMTP_PASSWORD ?? '' } : undefined,
+		connectionTimeout: 10_000
+	});
+	return transport;
+}
+
+/** Writes a message to the outbox as part of the caller's transaction; returns its id. */
+export async function queueEmail(tx: Tx, to: string, message: EmailTemplate): Promise<string> {
+	const rendered = renderEmail(message);
+	const [row] = await tx
+		.insert(emailOutbox)
+		.values({ toAddress: to, template: message.template, ...rendered })
+		.returning({ id: emailOutbox.id });
+	if (!row) throw new Error('Outbox insert returned no row');
+	return row.id;
+}
+
+export type DeliveryResult = 'sent' | 'skipped' | { error: string };
+
+/**
+ * Sends one outbox message if it is still unsent and no other worker holds it.
+ * Returns the error (after recording it) instead of throwing, so the attempt is counted.
+ */
+export async function deliverEmail(id: string): Promise<DeliveryResult> {
+	return db.transaction(async (tx) => {
+		const [row] = await tx
+			.select()
+			.from(emailOutbox)
+			.where(and(eq(emailOutbox.id, id), isNull(emailOutbox.sentAt)))
+			.for('update', { skipLocked: true });
+		if (!row) return 'skipped';
+		try {
+			await getTransport().sendMail({
+				from: env.MAIL_FROM ?? 'Tapline <hello@tapline.test>',
+				to: row.toAddress,
+				subject: row.subject,
+				html: row.html,
+				text: row.text,
+				messageId: `<${row.id}@tapline.mail>`
+			});
+		} catch (err) {
+			const message = err instanceof Error ? err.message : String(err);
+			await tx
+				.update(emailOutbox)
+				.set({ attempts: sql`${emailOutbox.attempts} + 1`, lastError: message.slice(0, 500) })
+				.where(eq(emailOutbox.id, id));
+			return { error: message };
+		}
+		await tx
+			.update(emailOutbox)
+			.set({ sentAt: new Date(), attempts: sql`${emailOutbox.attempts} + 1`, lastError: null })
+			.where(eq(emailOutbox.id, id));
+		return 'sent';
+	});
+}
+
+/** Unsent messages older than `olderThanMs` that have not given up: what the sweeper re-queues. */
+export async function listStrandedEmails(olderThanMs: number): Promise<string[]> {
+	const cutoff = new Date(Date.now() - olderThanMs);
+	const rows = await db
+		.select({ id: emailOutbox.id })
+		.from(emailOutbox)
+		.where(
+			and(
+				isNull(emailOutbox.sentAt),
+				lt(emailOutbox.createdAt, cutoff),
+				or(lt(emailOutbox.attempts, MAX_DELIVERY_ATTEMPTS), isNull(emailOutbox.lastError))
+			)
+		)
+		.limit(100);
+	return rows.map((r) => r.id);
+}

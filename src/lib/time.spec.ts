@@ -1,0 +1,102 @@
+import { describe, expect, it } from 'vitest';
+import { DEFAULT_TIME_ZONE, formatInZone, localToUtc, utcOffsetMinutes } from './time';
+
+// Facts below come from the IANA tz database, 'australasia' file, zone Australia/Adelaide with
+// rule 'AS': standard time UTC+9:30, daylight time UTC+10:30 from the first Sunday of October
+// 02:00 standard time to the first Sunday of April 03:00 daylight time.
+const ZONE = 'Australia/Adelaide';
+
+describe('utcOffsetMinutes', () => {
+	it('is +9:30 in winter and +10:30 in summer', () => {
+		expect(DEFAULT_TIME_ZONE).toBe(ZONE);
+		// Source: IANA tz 'australasia', Australia/Adelaide standard offset 9:30 = 570 min.
+		expect(utcOffsetMinutes(new Date('2026-07-01T00:00:00Z'), ZONE)).toBe(570);
+		// Source: IANA tz 'australasia', rule AS saves 1:00 -> 10:30 = 630 min in January.
+		expect(utcOffsetMinutes(new Date('2026-01-15T00:00:00Z'), ZONE)).toBe(630);
+	});
+
+	it('daylight saving ends 5 April 2026 at 03:00 local (16:30 UTC the day before)', () => {
+		// Source: IANA tz rule AS, first Sunday of April 2026 = 5 April; 03:00 at +10:30 is
+		// 2026-04-04T16:30Z.
+		expect(utcOffsetMinutes(new Date('2026-04-04T16:29:59Z'), ZONE)).toBe(630);
+		expect(utcOffsetMinutes(new Date('2026-04-04T16:30:00Z'), ZONE)).toBe(570);
+	});
+
+	it('daylight saving starts 4 October 2026 at 02:00 local (16:30 UTC the day before)', () => {
+		// Source: IANA tz rule AS, first Sunday of October 2026 = 4 October; 02:00 at +9:30 is
+		// 2026-10-03T16:30Z.
+		expect(utcOffsetMinutes(new Date('2026-10-03T16:29:59Z'), ZONE)).toBe(570);
+		expect(utcOffsetMinutes(new Date('2026-10-03T16:30:00Z'), ZONE)).toBe(630);
+	});
+
+	it('daylight saving ends 4 April 2027', () => {
+		// Date calculation: 1 Jan 2026 is a Thursday; 2026 has 365 days (52 weeks + 1 day), so
+		// 1 Jan 2027 is a Friday. Jan has 31 days (+3 weekdays) -> 1 Feb Monday; Feb 2027 has
+		// 28 days (+0) -> 1 Mar Monday; Mar has 31 (+3) -> 1 Apr Thursday; the first Sunday of
+		// April 2027 is therefore 4 April. Checked here with the calendar too.
+		expect(new Date(Date.UTC(2027, 3, 1)).getUTCDay()).toBe(4); // Thursday
+		expect(new Date(Date.UTC(2027, 3, 4)).getUTCDay()).toBe(0); // Sunday
+		// Source: IANA tz rule AS; 03:00 at +10:30 on 4 April 2027 is 2027-04-03T16:30Z.
+		expect(utcOffsetMinutes(new Date('2027-04-03T16:29:59Z'), ZONE)).toBe(630);
+		expect(utcOffsetMinutes(new Date('2027-04-03T16:30:00Z'), ZONE)).toBe(570);
+	});
+});
+
+describe('localToUtc', () => {
+	it('converts ordinary winter and summer times', () => {
+		// Source: IANA tz, Adelaide +9:30 in July: 09:00 local = 23:30 UTC the day before.
+		expect(localToUtc('2026-07-01', '09:00', ZONE).toISOString()).toBe('2026-06-30T23:30:00.000Z');
+		// Source: IANA tz, Adelaide +10:30 in January: 12:00 local = 01:30 UTC.
+		expect(localToUtc('2026-01-15', '12:00', ZONE).toISOString()).toBe('2026-01-15T01:30:00.000Z');
+	});
+
+	it('moves a time in the skipped hour forward by the jump', () => {
+		// Source: IANA tz rule AS, 4 Oct 2026 clocks go 02:00 -> 03:00, so 02:30 does not exist.
+		// Our documented rule reads it at the old offset (+9:30): 02:30 + 9:30 -> 17:00Z, shown
+		// as 03:30 daylight time.
+		const instant = localToUtc('2026-10-04', '02:30', ZONE);
+		expect(instant.toISOString()).toBe('2026-10-03T17:00:00.000Z');
+		expect(formatInZone(instant, ZONE, 'HH:mm xxx')).toBe('03:30 +10:30');
+	});
+
+	it('picks the earlier instant in the repeated hour', () => {
+		// Source: IANA tz rule AS, 5 Apr 2026 clocks go 03:00 -> 02:00, so 02:30 happens at
+		// +10:30 (16:00Z) and again at +9:30 (17:00Z); our documented rule picks the first.
+		const instant = localToUtc('2026-04-05', '02:30', ZONE);
+		expect(instant.toISOString()).toBe('2026-04-04T16:00:00.000Z');
+		expect(formatInZone(instant, ZONE, 'HH:mm xxx')).toBe('02:30 +10:30');
+		expect(formatInZone(new Date('2026-04-04T17:00:00Z'), ZONE, 'HH:mm xxx')).toBe('02:30 +09:30');
+	});
+
+	it('round-trips every half hour across the October change', () => {
+		// Source: IANA tz rule AS; every wall-clock time outside the skipped hour maps back to
+		// itself when formatted in the same zone.
+		for (let minutes = 0; minutes < 48 * 60; minutes += 30) {
+			const instant = new Date(Date.parse('2026-10-03T00:00:00Z') + minutes * 60_000);
+			const date = formatInZone(instant, ZONE, 'yyyy-MM-dd');
+			const time = formatInZone(instant, ZONE, 'HH:mm');
+			expect(localToUtc(date, time, ZONE).getTime()).toBe(instant.getTime());
+		}
+	});
+
+	it('rejects malformed or impossible dates', () => {
+		// Source: Gregorian calendar — February 2026 has 28 days.
+		expect(() => localToUtc('2026-02-29', '10:00', ZONE)).toThrow(RangeError);
+		expect(() => localToUtc('2026-02-28', '24:00', ZONE)).toThrow(RangeError);
+		expect(() => localToUtc('28/02/2026', '10:00', ZONE)).toThrow(RangeError);
+		expect(() => localToUtc('2026-02-28', '10:00', 'Mars/Olympus')).toThrow(RangeError);
+	});
+});
+
+describe('formatInZone', () => {
+	it('shows the same instant on the Adelaide wall clock', () => {
+		// Source: IANA tz, Adelaide +10:30 on 1 Jan 2026: 00:00Z -> 10:30 local.
+		expect(formatInZone(new Date('2026-01-01T00:00:00Z'), ZONE, 'yyyy-MM-dd HH:mm')).toBe(
+			'2026-01-01 10:30'
+		);
+		// Source: IANA tz, UTC itself has offset 0.
+		expect(formatInZone(new Date('2026-01-01T00:00:00Z'), 'UTC', 'yyyy-MM-dd HH:mm')).toBe(
+			'2026-01-01 00:00'
+		);
+	});
+});

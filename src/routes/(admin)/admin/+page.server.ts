@@ -1,0 +1,8 @@
+import { requireRole } from '$lib/server/guards';
+import { getPlatformCounts } from '$lib/server/metrics';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => {
+	requireRole('admin');
+	return { counts: await getPlatformCounts() };
+};

@@ -1,0 +1,24 @@
+import { fail } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { forgotPasswordSchema } from '$lib/forms/auth';
+import { requestPasswordReset } from '$lib/server/accounts';
+import { requestEmailDelivery } from '$lib/server/queue';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => ({
+	form: await superValidate(zod4(forgotPasswordSchema))
+});
+
+export const actions = {
+	default: async ({ request, url }) => {
+		const form = await superValidate(request, zod4(forgotPasswordSchema));
+		if (!form.valid) return fail(400, { form });
+		await requestEmailDelivery(await requestPasswordReset(form.data.email, url.origin));
+		// The same words whether or not the address has an account.
+		return message(
+			form,
+			'If an account uses that address, a reset link is on its way. It works for one hour.'
+		);
+	}
+} satisfies Actions;

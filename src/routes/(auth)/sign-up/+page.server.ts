@@ -1,0 +1,36 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { signUpSchema } from '$lib/forms/auth';
+import { createAccount } from '$lib/server/accounts';
+import { startSession } from '$lib/server/auth';
+import { requestEmailDelivery } from '$lib/server/queue';
+import { homeFor } from '$lib/server/guards';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ locals, url }) => {
+	if (locals.user) redirect(303, homeFor(locals.user.role));
+	const role = url.searchParams.get('as') === 'installer' ? 'installer' : 'owner';
+	return { form: await superValidate({ role }, zod4(signUpSchema), { errors: false }) };
+};
+
+export const actions = {
+	default: async ({ request, cookies, url }) => {
+		const form = await superValidate(request, zod4(signUpSchema));
+		const { password } = form.data;
+		form.data.password = ''; // never echo a password back to the page
+		if (!form.valid) return fail(400, { form });
+		const result = await createAccount({ ...form.data, password }, url.origin);
+		if (result === 'email-taken') {
+			return setError(
+				form,
+				'email',
+				'An account already uses this address. Sign in, or reset the password from the sign-in page.',
+				{ status: 409 }
+			);
+		}
+		await requestEmailDelivery(result.emailIds);
+		await startSession(cookies, result.user.id);
+		redirect(303, '/verify-email?sent=1');
+	}
+} satisfies Actions;

@@ -1,0 +1,33 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { resendVerification, verifyEmailToken } from '$lib/server/accounts';
+import { requestEmailDelivery } from '$lib/server/queue';
+import type { Actions, PageServerLoad } from './$types';
+
+const confirmSchema = z.object({ token: z.string().min(10).max(200) });
+
+// Following the link only shows a button; the address is confirmed by a POST, so mail scanners
+// that open links do not confirm addresses on the owner's behalf.
+export const load: PageServerLoad = ({ url, locals }) => ({
+	token: url.searchParams.get('token'),
+	sent: url.searchParams.has('sent'),
+	verified: url.searchParams.has('done') || (locals.user?.emailVerified ?? false),
+	email: locals.user?.email ?? null
+});
+
+export const actions = {
+	confirm: async ({ request }) => {
+		const parsed = confirmSchema.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success || !(await verifyEmailToken(parsed.data.token))) {
+			return fail(400, {
+				error: 'This link has expired or was already used. Sign in and ask for a new one.'
+			});
+		}
+		redirect(303, '/verify-email?done=1');
+	},
+	resend: async ({ locals, url }) => {
+		if (!locals.user) redirect(303, '/sign-in?redirectTo=/verify-email');
+		await requestEmailDelivery(await resendVerification(locals.user.id, url.origin));
+		return { resent: true };
+	}
+} satisfies Actions;

@@ -1,0 +1,76 @@
+import { expect, linkIn, signIn, test, uniqueEmail, waitForMail } from './fixtures';
+
+test('an owner signs up, confirms the e-mail through the inbox, signs out and back in', async ({
+	page
+}) => {
+	const email = uniqueEmail('owner');
+	const password = 'long enough passphrase';
+	await page.goto('/sign-up');
+	await page.getByText('A car owner').click();
+	await page.getByLabel('Your name').fill('Ada Quill');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill(password);
+	await page.getByRole('button', { name: 'Create account' }).click();
+
+	await expect(page).toHaveURL(/\/verify-email\?sent=1/);
+	await expect(page.getByText('Account created')).toBeVisible();
+	await expect(page.getByText('Please confirm your e-mail address')).toBeVisible();
+
+	const mail = await waitForMail(email, /Confirm your e-mail/);
+	expect(mail.html).toContain('Confirm my address');
+	await page.goto(linkIn(mail, '/verify-email?token='));
+	await page.getByRole('button', { name: 'Confirm my address' }).click();
+	await expect(page.getByText('Your e-mail address is confirmed')).toBeVisible();
+	await expect(page.getByText('Please confirm your e-mail address')).toHaveCount(0);
+
+	await page.getByRole('button', { name: 'Sign out' }).click();
+	await expect(page.getByRole('link', { name: 'Sign in' })).toBeVisible();
+
+	await signIn(page, email, password);
+	await expect(page).toHaveURL(/\/owner$/);
+	await expect(page.getByRole('heading', { name: 'My jobs' })).toBeVisible();
+});
+
+test('sign-up refuses bad input with clear messages', async ({ page }) => {
+	await page.goto('/sign-up');
+	await page.getByLabel('Your name').fill('A');
+	await page.getByLabel('E-mail').fill('not-an-address');
+	await page.getByLabel('Password').fill('short');
+	await page.getByRole('button', { name: 'Create account' }).click();
+	await expect(page.getByText('Tell us your name (at least 2 characters)')).toBeVisible();
+	await expect(page.getByText('That does not look like an e-mail address')).toBeVisible();
+	await expect(page.getByText('Use at least 10 characters')).toBeVisible();
+	await expect(page.getByLabel('Password')).toHaveAttribute('aria-invalid', 'true');
+});
+
+test('a wrong password gets one plain message', async ({ page }) => {
+	await page.goto('/sign-in');
+	await page.getByLabel('E-mail').fill('demo.owner@tapline.test');
+	await page.getByLabel('Password').fill('not the password');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page.getByRole('alert')).toContainText('do not match an account');
+});
+
+test('a forgotten password is reset by e-mail', async ({ page }) => {
+	const email = uniqueEmail('installer');
+	await page.goto('/sign-up?as=installer');
+	await page.getByLabel('Your name').fill('Reg Spanner');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill('first passphrase here');
+	await page.getByRole('button', { name: 'Create account' }).click();
+	await expect(page).toHaveURL(/verify-email/);
+	await page.getByRole('button', { name: 'Sign out' }).click();
+
+	await page.goto('/forgot-password');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByRole('button', { name: 'Send the link' }).click();
+	await expect(page.getByText('If an account uses that address')).toBeVisible();
+	const mail = await waitForMail(email, /Reset your Tapline password/);
+	await page.goto(linkIn(mail, '/reset-password?token='));
+	await page.getByLabel('New password', { exact: true }).fill('second passphrase here');
+	await page.getByLabel('New password again').fill('second passphrase here');
+	await page.getByRole('button', { name: 'Save the new password' }).click();
+	await expect(page.getByText('Your password is changed')).toBeVisible();
+	await signIn(page, email, 'second passphrase here');
+	await expect(page).toHaveURL(/\/installer$/);
+});

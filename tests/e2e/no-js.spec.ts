@@ -1,0 +1,29 @@
+import { expect, test } from '@playwright/test';
+
+// Runs in the `no-javascript` project: the forms must work as plain HTML posts.
+test('sign-in without JavaScript: errors come back from the server, success signs in', async ({
+	page
+}) => {
+	await page.goto('/sign-in');
+	await page.getByLabel('E-mail').fill('nonsense');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page.getByText('That does not look like an e-mail address')).toBeVisible();
+	await expect(page.getByText('Enter your password')).toBeVisible();
+
+	await page.getByLabel('E-mail').fill('demo.installer@tapline.test');
+	await page.getByLabel('Password').fill('tapline-demo-2026');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page).toHaveURL(/\/installer$/);
+	await expect(page.getByRole('heading', { name: 'My work' })).toBeVisible();
+});
+
+test('sign-up without JavaScript keeps what was typed when it refuses', async ({ page }) => {
+	await page.goto('/sign-up');
+	await page.getByLabel('Your name').fill('Nola Brisk');
+	await page.getByLabel('E-mail').fill('nola@example');
+	await page.getByLabel('Password').fill('tiny');
+	await page.getByRole('button', { name: 'Create account' }).click();
+	await expect(page.getByText('Use at least 10 characters')).toBeVisible();
+	await expect(page.getByLabel('Your name')).toHaveValue('Nola Brisk');
+	await expect(page.getByLabel('Password')).toHaveValue('');
+});

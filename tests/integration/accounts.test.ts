@@ -1,0 +1,156 @@
+import { count, eq } from 'drizzle-orm';
+import { describe, expect, it } from 'vitest';
+import {
+	authenticate,
+	createAccount,
+	createAdminAccount,
+	requestPasswordReset,
+	resetPassword,
+	verifyEmailToken
+} from '$lib/server/accounts';
+import { db } from '$lib/server/db';
+import { emailOutbox, emailToken, session, user } from '$lib/server/db/schema';
+
+const ORIGIN = 'http://tapline.test';
+const password = 'correct horse battery';
+let n = 0;
+const freshEmail = () => `person${++n}.${Date.now()}@example.test`;
+
+/** Pulls the one-time token out of the newest outbox message to this address. */
+async function tokenFromOutbox(to: string) {
+	const rows = await db
+		.select({ text: emailOutbox.text })
+		.from(emailOutbox)
+		.where(eq(emailOutbox.toAddress, to))
+		.orderBy(emailOutbox.createdAt);
+	const last = rows.at(-1)?.text ?? '';
+	const match = last.match(/token=([A-Za-z0-9_-]+)/);
+	if (!match?.[1]) throw new Error(`no token in mail to ${to}`);
+	return match[1];
+}
+
+describe('createAccount', () => {
+	it('stores a lower-cased address, an argon2id hash and queues a verification e-mail', async () => {
+		const email = freshEmail();
+		const result = await createAccount(
+			{ email: `  ${email.toUpperCase()} `, password, displayName: ' Wren ', role: 'owner' },
+			ORIGIN
+		);
+		if (result === 'email-taken') throw new Error('unexpected');
+		const [row] = await db.select().from(user).where(eq(user.id, result.user.id));
+		expect(row?.email).toBe(email);
+		expect(row?.displayName).toBe('Wren');
+		expect(row?.passwordHash).toMatch(/^\$argon2id\$v=19\$m=19456,t=2,p=1\$/);
+		expect(row?.emailVerifiedAt).toBeNull();
+		const mails = await db.select().from(emailOutbox).where(eq(emailOutbox.toAddress, email));
+		expect(mails).toHaveLength(1);
+		expect(mails[0]?.template).toBe('verify-email');
+		expect(mails[0]?.text).toContain(`${ORIGIN}/verify-email?token=`);
+		expect(mails[0]?.html).toContain('<a href="http://tapline.test/verify-email?token=');
+	});
+
+	it('refuses a second account on the same address and writes nothing for it', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'First', role: 'owner' }, ORIGIN);
+		const [before] = await db.select({ n: count() }).from(emailOutbox);
+		const again = await createAccount(
+			{ email: email.toUpperCase(), password, displayName: 'Second', role: 'installer' },
+			ORIGIN
+		);
+		expect(again).toBe('email-taken');
+		const [after] = await db.select({ n: count() }).from(emailOutbox);
+		expect(after?.n).toBe(before?.n);
+		const [{ n: users } = { n: 0 }] = await db
+			.select({ n: count() })
+			.from(user)
+			.where(eq(user.email, email));
+		expect(users).toBe(1);
+	});
+});
+
+describe('verifyEmailToken', () => {
+	it('verifies once and refuses the same token again', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'Ver', role: 'installer' }, ORIGIN);
+		const token = await tokenFromOutbox(email);
+		expect(await verifyEmailToken(token)).toBe(true);
+		const [row] = await db.select().from(user).where(eq(user.email, email));
+		expect(row?.emailVerifiedAt).toBeInstanceOf(Date);
+		expect(await verifyEmailToken(token)).toBe(false);
+	});
+
+	it('refuses an expired token and an unknown one', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'Late', role: 'owner' }, ORIGIN);
+		const token = await tokenFromOutbox(email);
+		await db.update(emailToken).set({ expiresAt: new Date(Date.now() - 1000) });
+		expect(await verifyEmailToken(token)).toBe(false);
+		expect(await verifyEmailToken('not-a-real-token-at-all')).toBe(false);
+	});
+});
+
+describe('authenticate', () => {
+	it('accepts the right password in any letter case of the address, and nothing else', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'Auth', role: 'owner' }, ORIGIN);
+		expect((await authenticate(email.toUpperCase(), password))?.email).toBe(email);
+		expect(await authenticate(email, 'wrong password here')).toBeNull();
+		expect(await authenticate(`nobody.${email}`, password)).toBeNull();
+	});
+});
+
+describe('password reset', () => {
+	it('writes nothing for an unknown address', async () => {
+		const [before] = await db.select({ n: count() }).from(emailOutbox);
+		expect(await requestPasswordReset('no-such-person@example.test', ORIGIN)).toEqual([]);
+		const [after] = await db.select({ n: count() }).from(emailOutbox);
+		expect(after?.n).toBe(before?.n);
+	});
+
+	it('sets the new password, signs out every session, and works only once', async () => {
+		const email = freshEmail();
+		const created = await createAccount(
+			{ email, password, displayName: 'Reset', role: 'owner' },
+			ORIGIN
+		);
+		if (created === 'email-taken') throw new Error('unexpected');
+		await db.insert(session).values({
+			id: `s-${Date.now()}`,
+			userId: created.user.id,
+			expiresAt: new Date(Date.now() + 3600_000)
+		});
+		await requestPasswordReset(email, ORIGIN);
+		const token = await tokenFromOutbox(email);
+		expect(await resetPassword(token, 'a brand new passphrase')).toBe(true);
+		expect(await authenticate(email, password)).toBeNull();
+		expect(await authenticate(email, 'a brand new passphrase')).not.toBeNull();
+		const sessions = await db.select().from(session).where(eq(session.userId, created.user.id));
+		expect(sessions).toHaveLength(0);
+		expect(await resetPassword(token, 'another passphrase!!')).toBe(false);
+	});
+});
+
+describe('createAdminAccount', () => {
+	it('lets an admin create an admin with an invitation link, and nobody else', async () => {
+		const inviter = {
+			id: 'x',
+			email: 'boss@example.test',
+			role: 'admin' as const,
+			displayName: 'Boss'
+		};
+		const email = freshEmail();
+		const created = await createAdminAccount(inviter, { email, displayName: 'New Admin' }, ORIGIN);
+		if (created === 'email-taken') throw new Error('unexpected');
+		expect(created.user.role).toBe('admin');
+		const [mail] = await db.select().from(emailOutbox).where(eq(emailOutbox.toAddress, email));
+		expect(mail?.template).toBe('admin-invite');
+		expect(mail?.text).toContain('Boss created an admin account');
+		await expect(
+			createAdminAccount(
+				{ ...inviter, role: 'owner' },
+				{ email: freshEmail(), displayName: 'Nope' },
+				ORIGIN
+			)
+		).rejects.toThrow(/Only an admin/);
+	});
+});
