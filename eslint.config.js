@@ -9,6 +9,8 @@ export default ts.config(
 	{
 		ignores: [
 			'build/',
+			'build-test-*/',
+			'.svelte-kit-test-*/',
 			'.svelte-kit/',
 			'node_modules/',
 			'test-results/',

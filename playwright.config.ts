@@ -27,6 +27,7 @@ export default defineConfig({
 	timeout: 60_000,
 	expect: { timeout: 15_000 },
 	reporter: [['list'], ['json']],
+	outputDir: process.env.TAPLINE_E2E_OUTPUT ?? 'test-results/playwright',
 	use: { baseURL, trace: 'retain-on-failure', screenshot: 'only-on-failure' },
 	projects: [
 		{ name: 'chromium', use: chromium, testIgnore: /no-js\.spec\.ts/ },

@@ -5,7 +5,9 @@ import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
 const config = {
 	preprocess: vitePreprocess(),
 	kit: {
-		adapter: adapter({ out: 'build' }),
+		// Test runs build into their own folders so parallel runs (different port shifts) never collide.
+		adapter: adapter({ out: process.env.TAPLINE_BUILD_DIR ?? 'build' }),
+		outDir: process.env.TAPLINE_KIT_DIR ?? '.svelte-kit',
 		typescript: {
 			// Type-check the fakes, the seed and the bench with the app's settings.
 			config: (tsconfig) => {

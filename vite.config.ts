@@ -23,6 +23,7 @@ export default defineConfig({
 					environment: 'node',
 					include: ['tests/integration/**/*.test.ts'],
 					alias: { '$env/dynamic/private': path.resolve('tests/integration/env.ts') },
+					globalSetup: ['tests/integration/global-setup.ts'],
 					setupFiles: ['tests/integration/setup.ts'],
 					testTimeout: 30_000,
 					hookTimeout: 60_000

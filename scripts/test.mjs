@@ -17,6 +17,8 @@ const time = async (label, fn) => {
 };
 
 const config = loadConfig('test');
+// TAPLINE_TEST_STEPS=check,vitest,e2e (default: all) runs a subset, e.g. `TAPLINE_TEST_STEPS=e2e npm test`.
+const steps = new Set((process.env.TAPLINE_TEST_STEPS ?? 'check,vitest,e2e').split(','));
 await time('install', () => {
 	ensureNodeModules();
 	ensureDebianPackages(['postgresql', 'chromium']);
@@ -43,7 +45,12 @@ const templateDb = `tapline_t${runId}_template`;
 const e2eDb = `tapline_t${runId}_e2e`;
 const failures = [];
 const counts = { passed: 0, failed: 0 };
-const reportDir = path.join(ROOT, 'test-results');
+const shift = config.appPort - 3000;
+const reportDir = path.join(ROOT, 'test-results', `run-${shift}`);
+const buildEnv = {
+	TAPLINE_BUILD_DIR: `build-test-${shift}`,
+	TAPLINE_KIT_DIR: `.svelte-kit-test-${shift}`
+};
 
 async function cleanUp() {
 	await stopChildren();
@@ -53,6 +60,7 @@ async function cleanUp() {
 	cluster.stop();
 }
 
+rmSync(reportDir, { recursive: true, force: true });
 try {
 	await time('migrate', async () => {
 		await db.ensureDatabase(config.adminUrl, templateDb);
@@ -60,70 +68,79 @@ try {
 	});
 	const env = appEnv(config, config.dbUrl(e2eDb));
 
-	await time('check', () => {
-		run('svelte-kit sync', binPath('svelte-kit'), ['sync']);
-		if (
-			!run('svelte-check', binPath('svelte-check'), [
-				'--tsconfig',
-				'./tsconfig.json',
-				'--fail-on-warnings'
-			])
-		)
-			failures.push('svelte-check');
-		if (!run('prettier --check', binPath('prettier'), ['--check', '.', '--log-level', 'warn']))
-			failures.push('prettier');
-		if (!run('eslint', binPath('eslint'), ['.'])) failures.push('eslint');
-	});
-
-	rmSync(reportDir, { recursive: true, force: true });
-	const vitestJson = path.join(reportDir, 'vitest.json');
-	await time('vitest', () => {
-		const ok = run(
-			'Vitest: unit and integration',
-			binPath('vitest'),
-			['run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`],
-			{
-				TEST_ADMIN_DATABASE_URL: config.adminUrl,
-				TEST_TEMPLATE_DATABASE: templateDb,
-				TEST_DATABASE_URL_PREFIX: config.dbUrl(''),
-				TAPLINE_WORKER: 'off'
-			}
-		);
-		if (!ok) failures.push('vitest');
-		try {
-			const r = JSON.parse(readFileSync(vitestJson, 'utf8'));
-			counts.passed += r.numPassedTests;
-			counts.failed += r.numFailedTests;
-		} catch {
-			failures.push('vitest report missing');
-		}
-	});
-
-	await time('build', () => ensureBuild(env, { force: true }));
-
-	await time('e2e', async () => {
-		await db.ensureDatabase(config.adminUrl, e2eDb, templateDb);
-		db.seedDatabase(env.DATABASE_URL);
-		const fakes = startChild('fakes', binPath('tsx'), ['local-fakes/index.ts'], env);
-		await waitForPort(config.fakes.FAKE_SMTP_PORT, 30_000, fakes);
-		await waitForPort(config.fakes.FAKE_MAIL_HTTP_PORT, 30_000, fakes);
-		const app = startChild('app', process.execPath, ['build'], env);
-		await waitForPort(config.appPort, 60_000, app);
-		const pwJson = path.join(reportDir, 'playwright.json');
-		const ok = run('Playwright end-to-end (Debian chromium)', binPath('playwright'), ['test'], {
-			...env,
-			BASE_URL: env.ORIGIN,
-			PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson
+	if (steps.has('check'))
+		await time('check', () => {
+			run('svelte-kit sync', binPath('svelte-kit'), ['sync']);
+			if (
+				!run('svelte-check', binPath('svelte-check'), [
+					'--tsconfig',
+					'./tsconfig.json',
+					'--fail-on-warnings'
+				])
+			)
+				failures.push('svelte-check');
+			if (!run('prettier --check', binPath('prettier'), ['--check', '.', '--log-level', 'warn']))
+				failures.push('prettier');
+			if (!run('eslint', binPath('eslint'), ['.'])) failures.push('eslint');
 		});
-		if (!ok) failures.push('playwright');
-		try {
-			const r = JSON.parse(readFileSync(pwJson, 'utf8'));
-			counts.passed += r.stats.expected + r.stats.flaky;
-			counts.failed += r.stats.unexpected;
-		} catch {
-			failures.push('playwright report missing');
-		}
-	});
+
+	const vitestJson = path.join(reportDir, 'vitest.json');
+	if (steps.has('vitest'))
+		await time('vitest', () => {
+			const ok = run(
+				'Vitest: unit and integration',
+				binPath('vitest'),
+				['run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`],
+				{
+					TEST_ADMIN_DATABASE_URL: config.adminUrl,
+					TEST_TEMPLATE_DATABASE: templateDb,
+					TEST_DATABASE_URL_PREFIX: config.dbUrl(''),
+					TAPLINE_WORKER: 'off'
+				}
+			);
+			if (!ok) failures.push('vitest');
+			try {
+				const r = JSON.parse(readFileSync(vitestJson, 'utf8'));
+				counts.passed += r.numPassedTests;
+				counts.failed += r.numFailedTests;
+			} catch {
+				failures.push('vitest report missing');
+			}
+		});
+
+	if (steps.has('e2e'))
+		await time('build', () => ensureBuild({ ...env, ...buildEnv }, { force: true }));
+
+	if (steps.has('e2e'))
+		await time('e2e', async () => {
+			await db.ensureDatabase(config.adminUrl, e2eDb, templateDb);
+			db.seedDatabase(env.DATABASE_URL);
+			const fakes = startChild('fakes', binPath('tsx'), ['local-fakes/index.ts'], env);
+			await waitForPort(config.fakes.FAKE_SMTP_PORT, 30_000, fakes);
+			await waitForPort(config.fakes.FAKE_MAIL_HTTP_PORT, 30_000, fakes);
+			const app = startChild('app', process.execPath, [buildEnv.TAPLINE_BUILD_DIR], env);
+			await waitForPort(config.appPort, 60_000, app);
+			const pwJson = path.join(reportDir, 'playwright.json');
+			const ok = run(
+				'Playwright end-to-end (Debian chromium)',
+				binPath('playwright'),
+				['test', ...(process.env.TAPLINE_E2E_ARGS ?? '').split(' ').filter(Boolean)],
+				{
+					...env,
+					BASE_URL: env.ORIGIN,
+					PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson,
+					TAPLINE_E2E_OUTPUT: path.join(reportDir, 'playwright')
+				}
+			);
+			if (!ok) failures.push('playwright');
+			try {
+				const r = JSON.parse(readFileSync(pwJson, 'utf8'));
+				counts.passed += r.stats.expected + r.stats.flaky;
+				counts.failed += r.stats.unexpected;
+			} catch {
+				failures.push('playwright report missing');
+			}
+		});
 } catch (err) {
 	console.error(err);
 	failures.push(String(err instanceof Error ? err.message : err));

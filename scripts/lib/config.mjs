@@ -1,3 +1,4 @@
+// @ts-nocheck -- plain-JS orchestration that runs before npm ci; type-checked by its own use, not by tsc
 // Configuration shared by `npm start` and `npm test`. Plain Node (no packages): it runs before
 // `npm ci` may have happened. Values come from the environment, then `.env`, then these defaults.
 import { existsSync } from 'node:fs';
@@ -10,10 +11,14 @@ if (existsSync(path.join(ROOT, '.env'))) process.loadEnvFile(path.join(ROOT, '.e
 
 const num = (name, fallback) => Number(process.env[name] ?? fallback);
 
-/** Ports and names for one run; `mode` 'test' shifts every port so a test run never meets `npm start`. */
+/**
+ * Ports and names for one run. `mode` 'test' shifts every port (PostgreSQL included, so a test run
+ * has its own cluster) by TAPLINE_TEST_PORT_SHIFT (1000), so tests never meet `npm start`, and two
+ * test runs with different shifts never meet each other.
+ */
 export function loadConfig(mode) {
-	const shift = mode === 'test' ? 1000 : 0;
-	const pgPort = num('TAPLINE_PG_PORT', 54329);
+	const shift = mode === 'test' ? num('TAPLINE_TEST_PORT_SHIFT', 1000) : 0;
+	const pgPort = num('TAPLINE_PG_PORT', 54329) + shift;
 	const pgUser = process.env.TAPLINE_PG_USER ?? 'tapline';
 	const pgPassword = process.env.TAPLINE_PG_PASSWORD ?? 'tapline-local';
 	return {
@@ -52,6 +57,8 @@ export function appEnv(config, databaseUrl) {
 		FAKE_MAIL_API: `http://127.0.0.1:${f.FAKE_MAIL_HTTP_PORT}`,
 		S3_ENDPOINT: process.env.S3_ENDPOINT ?? `http://127.0.0.1:${f.FAKE_S3_PORT}`,
 		GEOCODER_URL: process.env.GEOCODER_URL ?? `http://127.0.0.1:${f.FAKE_GEOCODE_PORT}`,
+		PUBLIC_TILE_ATTRIBUTION:
+			process.env.PUBLIC_TILE_ATTRIBUTION ?? 'Demo tiles, Tapline local fake',
 		PUBLIC_TILE_URL:
 			process.env.PUBLIC_TILE_URL ?? `http://127.0.0.1:${f.FAKE_TILES_PORT}/{z}/{x}/{y}.png`,
 		...Object.fromEntries(Object.entries(f).map(([k, v]) => [k, String(v)]))

@@ -1,3 +1,4 @@
+// @ts-nocheck -- plain-JS orchestration that runs before npm ci; type-checked by its own use, not by tsc
 // A private PostgreSQL cluster for this checkout: its own data folder, its own port on 127.0.0.1.
 // initdb and pg_ctl refuse to run as root, so as root they run as the `postgres` user, on a folder
 // that user owns (inside the checkout when it can reach it, else in the system temp folder).

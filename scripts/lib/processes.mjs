@@ -1,3 +1,4 @@
+// @ts-nocheck -- plain-JS orchestration that runs before npm ci; type-checked by its own use, not by tsc
 // Child processes for the fakes and the app, stopped together.
 import { spawn } from 'node:child_process';
 import net from 'node:net';

@@ -1,3 +1,4 @@
+// @ts-nocheck -- plain-JS orchestration that runs before npm ci; type-checked by its own use, not by tsc
 // Installing what is missing: npm packages and Debian packages.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, readdirSync, statSync } from 'node:fs';

@@ -27,3 +27,22 @@ test('sign-up without JavaScript keeps what was typed when it refuses', async ({
 	await expect(page.getByLabel('Your name')).toHaveValue('Nola Brisk');
 	await expect(page.getByLabel('Password')).toHaveValue('');
 });
+
+test('the first job step works without JavaScript', async ({ page }) => {
+	await page.goto('/sign-in');
+	await page.getByLabel('E-mail').fill('leilani.fox@tapline.test');
+	await page.getByLabel('Password').fill('tapline-demo-2026');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await page.getByRole('button', { name: 'Describe a new job' }).click();
+	await page.getByRole('button', { name: 'Save and continue' }).click();
+	await expect(page.getByText('Enter the make')).toBeVisible();
+	await page.getByLabel('Make').fill('Demo');
+	await page.getByLabel('Model').fill('Ute');
+	await page.getByLabel('Year').fill('2021');
+	await page.getByLabel('Body style').selectOption('ute');
+	await page.getByText('Not sure', { exact: true }).first().click();
+	await page.getByLabel('Battery type').selectOption('unknown');
+	await page.getByRole('radio', { name: 'No', exact: true }).check();
+	await page.getByRole('button', { name: 'Save and continue' }).click();
+	await expect(page.getByRole('heading', { name: 'The cameras' })).toBeVisible();
+});

@@ -1,15 +1,12 @@
 // Gives each integration test file its own database, copied from the migrated template that
-// `npm test` prepared, and drops it afterwards. Files run in parallel without seeing each other.
+// global-setup.ts prepared, and drops it afterwards. Files run in parallel without seeing each other.
 import { randomBytes } from 'node:crypto';
 import pg from 'pg';
-import { afterAll } from 'vitest';
+import { afterAll, inject } from 'vitest';
 
-const adminUrl = process.env.TEST_ADMIN_DATABASE_URL;
-const template = process.env.TEST_TEMPLATE_DATABASE;
-const prefix = process.env.TEST_DATABASE_URL_PREFIX;
-if (!adminUrl || !template || !prefix) {
-	throw new Error('Integration tests need the database that `npm test` prepares: run `npm test`.');
-}
+const adminUrl = inject('adminDatabaseUrl');
+const template = inject('templateDatabase');
+const prefix = inject('databaseUrlPrefix');
 
 const name = `${template.replace(/_template$/, '')}_${randomBytes(4).toString('hex')}`;
 

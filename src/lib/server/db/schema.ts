@@ -1,16 +1,23 @@
 import {
 	bigint,
 	boolean,
+	date,
 	doublePrecision,
 	index,
 	integer,
+	jsonb,
 	pgEnum,
 	pgTable,
+	primaryKey,
+	smallint,
 	text,
 	timestamp,
+	uniqueIndex,
 	uuid,
 	varchar
 } from 'drizzle-orm/pg-core';
+import type { JobRequestInput } from '../../scope/request';
+import type { ScopeSheet } from '../../scope';
 
 /** Who a person is on Tapline; one role per account. */
 export const userRole = pgEnum('user_role', ['owner', 'installer', 'admin']);
@@ -92,17 +99,194 @@ export const installerProfile = pgTable(
 			.primaryKey()
 			.references(() => user.id, { onDelete: 'cascade' }),
 		businessName: text('business_name').notNull(),
+		contactName: text('contact_name'),
+		phone: text('phone'),
+		abn: varchar('abn', { length: 11 }),
+		yearsInTrade: smallint('years_in_trade'),
+		/** What they fit: see INSTALLER_SKILLS in $lib/vetting. */
+		skills: text('skills').array().notNull().default([]),
 		suburb: text('suburb').notNull(),
 		postcode: varchar('postcode', { length: 4 }).notNull(),
+		/** Base point of the service circle (never shown publicly beyond the suburb). */
 		latitude: doublePrecision('latitude').notNull(),
 		longitude: doublePrecision('longitude').notNull(),
 		serviceRadiusKm: integer('service_radius_km').notNull().default(25),
 		offersMobile: boolean('offers_mobile').notNull().default(true),
 		offersWorkshop: boolean('offers_workshop').notNull().default(false),
+		workshopAddress: text('workshop_address'),
+		/** Mobile travel fee beyond the free radius, integer cents per km (GST-inclusive). */
+		travelFeeCentsPerKm: integer('travel_fee_cents_per_km').notNull().default(0),
+		freeRadiusKm: integer('free_radius_km').notNull().default(0),
+		timeZone: text('time_zone').notNull().default('Australia/Adelaide'),
+		insurer: text('insurer'),
+		policyNumber: text('policy_number'),
+		coverCents: bigint('cover_cents', { mode: 'number' }),
+		insuranceExpiresOn: date('insurance_expires_on'),
+		/** Set while quoting is paused (e.g. insurance lapsed); cleared when an admin approves anew. */
+		pausedReason: text('paused_reason'),
 		vettingStatus: vettingStatus('vetting_status').notNull().default('applied'),
+		submittedAt: timestamp('submitted_at', { withTimezone: true }),
+		createdAt: createdAt(),
+		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [
+		index('installer_profile_lat_lng_idx').on(t.latitude, t.longitude),
+		index('installer_profile_status_idx').on(t.vettingStatus)
+	]
+);
+
+/** Uploaded files of an installer: insurance certificate, photo ID, qualifications, gallery photos. */
+export const installerDocument = pgTable(
+	'installer_document',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId, { onDelete: 'cascade' }),
+		kind: text('kind', { enum: ['insurance', 'photo-id', 'qualification', 'gallery'] }).notNull(),
+		objectKey: text('object_key').notNull(),
+		thumbKey: text('thumb_key'),
+		contentType: text('content_type').notNull(),
+		bytes: integer('bytes').notNull(),
+		originalName: text('original_name').notNull(),
 		createdAt: createdAt()
 	},
-	(t) => [index('installer_profile_lat_lng_idx').on(t.latitude, t.longitude)]
+	(t) => [index('installer_document_installer_idx').on(t.installerId)]
+);
+
+/**
+ * Every vetting decision, append-only: a database trigger (migration 0001) refuses UPDATE and
+ * DELETE on this table, so the trail cannot be edited, even by the app.
+ */
+export const vettingEvent = pgTable(
+	'vetting_event',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId),
+		actorId: text('actor_id').references(() => user.id),
+		action: text('action').notNull(),
+		fromStatus: vettingStatus('from_status'),
+		toStatus: vettingStatus('to_status'),
+		reason: text('reason'),
+		checklist: jsonb('checklist').$type<Record<string, boolean>>(),
+		createdAt: createdAt()
+	},
+	(t) => [index('vetting_event_installer_idx').on(t.installerId, t.createdAt)]
+);
+
+/** Weekly working hours, in the installer's time zone; minutes from local midnight. */
+export const installerHours = pgTable(
+	'installer_hours',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId, { onDelete: 'cascade' }),
+		weekday: smallint('weekday').notNull(),
+		startMinute: smallint('start_minute').notNull(),
+		endMinute: smallint('end_minute').notNull()
+	},
+	(t) => [index('installer_hours_installer_idx').on(t.installerId)]
+);
+
+export const installerBlockedDate = pgTable(
+	'installer_blocked_date',
+	{
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId, { onDelete: 'cascade' }),
+		day: date('day').notNull(),
+		note: text('note')
+	},
+	(t) => [primaryKey({ columns: [t.installerId, t.day] })]
+);
+
+/** Which insurance-expiry reminders went out, so the daily job never sends one twice. */
+export const insuranceReminder = pgTable(
+	'insurance_reminder',
+	{
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId, { onDelete: 'cascade' }),
+		expiresOn: date('expires_on').notNull(),
+		daysBefore: smallint('days_before').notNull(),
+		sentAt: createdAt()
+	},
+	(t) => [primaryKey({ columns: [t.installerId, t.expiresOn, t.daysBefore] })]
+);
+
+/** Where an owner's job stands. Names are Tapline's own. */
+export const jobStatus = pgEnum('job_status', [
+	'drafting',
+	'collecting_quotes',
+	'booked',
+	'fitted',
+	'settled',
+	'withdrawn'
+]);
+
+export const job = pgTable(
+	'job',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		ownerId: text('owner_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		status: jobStatus('status').notNull().default('drafting'),
+		/** The step the owner reached in the request form, and what they typed so far. */
+		draftStep: text('draft_step').notNull().default('vehicle'),
+		draft: jsonb('draft').$type<Record<string, unknown>>().notNull().default({}),
+		/** The validated request and its scope sheet, set on submission. */
+		request: jsonb('request').$type<JobRequestInput>(),
+		scope: jsonb('scope').$type<ScopeSheet>(),
+		title: text('title'),
+		bodyStyle: text('body_style'),
+		cameras: text('cameras'),
+		power: text('power'),
+		locationMode: text('location_mode', { enum: ['mobile', 'workshop'] }),
+		suburb: text('suburb'),
+		postcode: varchar('postcode', { length: 4 }),
+		latitude: doublePrecision('latitude'),
+		longitude: doublePrecision('longitude'),
+		/** Owner's street address for a mobile fit; shown to an installer only after booking. */
+		addressLine: text('address_line'),
+		timeZone: text('time_zone').notNull().default('Australia/Adelaide'),
+		preferredWindows: jsonb('preferred_windows')
+			.$type<Array<{ date: string; window: 'morning' | 'midday' | 'afternoon' }>>()
+			.notNull()
+			.default([]),
+		priceLowCents: integer('price_low_cents'),
+		priceHighCents: integer('price_high_cents'),
+		withdrawnReason: text('withdrawn_reason'),
+		withdrawnAt: timestamp('withdrawn_at', { withTimezone: true }),
+		submittedAt: timestamp('submitted_at', { withTimezone: true }),
+		createdAt: createdAt(),
+		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [
+		index('job_owner_idx').on(t.ownerId, t.createdAt),
+		index('job_status_lat_lng_idx').on(t.status, t.latitude, t.longitude)
+	]
+);
+
+export const jobPhoto = pgTable(
+	'job_photo',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		kind: text('kind', { enum: ['fuse-box', 'windscreen', 'rear-window'] }).notNull(),
+		objectKey: text('object_key').notNull(),
+		thumbKey: text('thumb_key').notNull(),
+		width: integer('width').notNull(),
+		height: integer('height').notNull(),
+		bytes: integer('bytes').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [uniqueIndex('job_photo_job_kind_idx').on(t.jobId, t.kind)]
 );
 
 /** Table layout expected by rate-limiter-flexible's RateLimiterPostgres (created here, not by it). */
@@ -112,6 +296,29 @@ export const rateLimit = pgTable('rate_limit', {
 	expire: bigint('expire', { mode: 'number' })
 });
 
+/**
+ * An installer's quote on a job: one per installer per job (revisions arrive with the quoting
+ * feature). Jobs count these to decide whether the owner may still edit.
+ */
+export const quote = pgTable(
+	'quote',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId),
+		totalCents: integer('total_cents').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [uniqueIndex('quote_job_installer_idx').on(t.jobId, t.installerId)]
+);
+
 export type User = typeof user.$inferSelect;
 export type Role = (typeof userRole.enumValues)[number];
 export type InstallerProfile = typeof installerProfile.$inferSelect;
+export type Job = typeof job.$inferSelect;
+export type JobStatus = (typeof jobStatus.enumValues)[number];
+export type VettingStatus = (typeof vettingStatus.enumValues)[number];

@@ -1,7 +1,25 @@
+import { z } from 'zod';
 import { requireRole } from '$lib/server/guards';
+import { JOB_SORTS, listOwnerJobs } from '$lib/server/jobs';
 import type { PageServerLoad } from './$types';
 
-export const load: PageServerLoad = () => {
+const PAGE_SIZE = 10;
+const querySchema = z.object({
+	sort: z.enum(JOB_SORTS).catch('created'),
+	dir: z.enum(['asc', 'desc']).catch('desc'),
+	page: z.coerce.number().int().min(1).max(10_000).catch(1)
+});
+
+export const load: PageServerLoad = async ({ url }) => {
 	const owner = requireRole('owner');
-	return { displayName: owner.displayName, emailVerified: owner.emailVerified };
+	const query = querySchema.parse(Object.fromEntries(url.searchParams));
+	const { rows, total } = await listOwnerJobs(owner.id, { ...query, pageSize: PAGE_SIZE });
+	return {
+		displayName: owner.displayName,
+		emailVerified: owner.emailVerified,
+		jobs: rows,
+		total,
+		query,
+		pages: Math.max(1, Math.ceil(total / PAGE_SIZE))
+	};
 };

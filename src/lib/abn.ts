@@ -1,0 +1,63 @@
+/**
+ * Australian Business Number helpers. Installers give an ABN when they apply; the check digit
+ * test catches typos before anyone looks the number up in the register.
+ */
+import { z } from 'zod';
+
+/**
+ * Weights of the 11 digits in the ABN check (Australian Business Register, "ABN format").
+ */
+export const ABN_WEIGHTS = [10, 1, 3, 5, 7, 9, 11, 13, 15, 17, 19] as const;
+
+/** Shown when an ABN has 11 digits but fails the check. */
+export const ABN_CHECK_MESSAGE = 'That ABN does not pass the ABN check: please check the 11 digits';
+
+/** Shown when the input is not 11 digits at all. */
+export const ABN_FORMAT_MESSAGE = 'An ABN is 11 digits, for example 51 824 753 556';
+
+/**
+ * Removes the spaces people type or paste into an ABN ('51 824 753 556' -> '51824753556').
+ * Other characters are kept so that validation can refuse them.
+ * @param input the ABN as entered
+ */
+export function normaliseAbn(input: string): string {
+	return input.replace(/\s+/g, '');
+}
+
+/**
+ * Whether an ABN passes the Australian Business Register check: subtract 1 from the first
+ * digit, multiply each digit by its weight (10, 1, 3, 5, … 19), add them up; the ABN is valid
+ * when the sum divides by 89.
+ * @param input the ABN, spaces allowed
+ */
+export function isValidAbn(input: string): boolean {
+	const abn = normaliseAbn(input);
+	if (!/^\d{11}$/.test(abn)) return false;
+	const digits = [...abn].map(Number);
+	digits[0] = (digits[0] ?? 0) - 1;
+	const sum = digits.reduce((total, digit, index) => total + digit * (ABN_WEIGHTS[index] ?? 0), 0);
+	return sum % 89 === 0;
+}
+
+/**
+ * Formats an ABN the way the register prints it: 'NN NNN NNN NNN'.
+ * @param input the ABN, spaces allowed
+ * @throws RangeError unless the input is 11 digits
+ */
+export function formatAbn(input: string): string {
+	const abn = normaliseAbn(input);
+	if (!/^\d{11}$/.test(abn)) throw new RangeError(ABN_FORMAT_MESSAGE);
+	return `${abn.slice(0, 2)} ${abn.slice(2, 5)} ${abn.slice(5, 8)} ${abn.slice(8)}`;
+}
+
+/** Form field for an ABN: accepts spaces, outputs the 11 digits without them. */
+export const abnSchema = z
+	.string()
+	.transform(normaliseAbn)
+	.pipe(
+		z
+			.string()
+			// abort: a wrong length or a letter is the one message worth showing.
+			.regex(/^\d{11}$/, { message: ABN_FORMAT_MESSAGE, abort: true })
+			.refine(isValidAbn, ABN_CHECK_MESSAGE)
+	);

@@ -1,0 +1,355 @@
+/**
+ * Owners' jobs: drafting step by step, posting with a computed scope sheet, editing while no quote
+ * is in, withdrawing, listing. Every change locks the job row and re-checks ownership and state in
+ * one transaction, so nothing is half-written and two tabs cannot interleave.
+ */
+import { and, asc, count, desc, eq, sql, type SQL } from 'drizzle-orm';
+import { z } from 'zod';
+import { formatInZone } from '$lib/time';
+import { computeScope, jobRequestSchema } from '$lib/scope';
+import {
+	preferredDateProblem,
+	type JobStep,
+	type PhotoKind,
+	type TimeWindow
+} from '$lib/forms/job';
+import { db, type Tx } from './db';
+import { job, jobPhoto, quote, type Job } from './db/schema';
+
+const uuid = z.uuid();
+
+/** Statuses in which an owner may still change the request (and only while no quote is in). */
+const EDITABLE = new Set<Job['status']>(['drafting', 'collecting_quotes']);
+
+export type JobChange = 'ok' | 'not-found' | 'locked';
+
+// A correlated count; `$count` qualifies the columns (a bare sql`` would not, and inside the
+// subquery an unqualified "id" would mean the quote's own id).
+const quoteCount = () => db.$count(quote, eq(quote.jobId, job.id));
+
+/** Starts an empty draft for an owner; returns its id. */
+export async function createDraftJob(ownerId: string): Promise<string> {
+	const [row] = await db.insert(job).values({ ownerId }).returning({ id: job.id });
+	return row!.id;
+}
+
+/** The owner's job with its quote count, or null when it is not theirs (or not a job id at all). */
+export async function getOwnedJob(jobId: string, ownerId: string) {
+	if (!uuid.safeParse(jobId).success) return null;
+	const [row] = await db
+		.select({ job, quotes: quoteCount() })
+		.from(job)
+		.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)));
+	if (!row) return null;
+	return {
+		...row.job,
+		quoteCount: row.quotes,
+		editable: EDITABLE.has(row.job.status) && row.quotes === 0
+	};
+}
+
+/** Locks the owner's job for a change and says whether it may still be edited. */
+async function lockEditable(
+	tx: Tx,
+	jobId: string,
+	ownerId: string
+): Promise<Job | Exclude<JobChange, 'ok'>> {
+	if (!uuid.safeParse(jobId).success) return 'not-found';
+	const [row] = await tx
+		.select()
+		.from(job)
+		.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
+		.for('update');
+	if (!row) return 'not-found';
+	const [quotes] = await tx.select({ n: count() }).from(quote).where(eq(quote.jobId, jobId));
+	if (!EDITABLE.has(row.status) || (quotes?.n ?? 0) > 0) return 'locked';
+	return row;
+}
+
+/** Merges one step's answers into the draft and records the step reached. */
+export async function saveJobStep(
+	jobId: string,
+	ownerId: string,
+	step: JobStep,
+	values: Record<string, unknown>,
+	columns: Partial<typeof job.$inferInsert> = {}
+): Promise<JobChange> {
+	return db.transaction(async (tx) => {
+		const locked = await lockEditable(tx, jobId, ownerId);
+		if (typeof locked === 'string') return locked;
+		await tx
+			.update(job)
+			.set({
+				...columns,
+				draft: { ...locked.draft, ...values },
+				draftStep: step,
+				updatedAt: new Date()
+			})
+			.where(eq(job.id, jobId));
+		return 'ok';
+	});
+}
+
+export interface PlaceAnswers {
+	locationMode: 'mobile' | 'workshop';
+	suburb: string;
+	postcode: string;
+	lat: number;
+	lng: number;
+	addressLine: string | null;
+	windows: Array<{ date: string; window: TimeWindow }>;
+}
+
+/** Checks preferred dates against the job's local "today"; returns a message per bad date. */
+export function checkPreferredDates(
+	windows: PlaceAnswers['windows'],
+	timeZone: string,
+	now = new Date()
+): string | null {
+	const today = formatInZone(now, timeZone, 'yyyy-MM-dd');
+	for (const w of windows) {
+		const problem = preferredDateProblem(w.date, today);
+		if (problem) return problem;
+	}
+	return null;
+}
+
+export type PostProblem = { step: JobStep; message: string };
+
+/**
+ * Validates the whole draft, computes the scope sheet and opens the job for quotes (or saves an
+ * edit of an open job). Returns the problems that keep it from posting.
+ */
+export async function postJob(
+	jobId: string,
+	ownerId: string,
+	now = new Date()
+): Promise<JobChange | PostProblem[]> {
+	return db.transaction(async (tx) => {
+		const locked = await lockEditable(tx, jobId, ownerId);
+		if (typeof locked === 'string') return locked;
+		const problems = draftProblems(locked, now);
+		if (problems.length > 0) return problems;
+		const request = jobRequestSchema.parse(locked.draft);
+		const scope = computeScope(request);
+		await tx
+			.update(job)
+			.set({
+				status: 'collecting_quotes',
+				request,
+				scope,
+				title: `${request.year} ${request.make} ${request.model}`,
+				bodyStyle: request.bodyStyle,
+				cameras: request.cameras,
+				power: request.power,
+				priceLowCents: scope.price.totalIncGst.min,
+				priceHighCents: scope.price.totalIncGst.max,
+				draftStep: 'review',
+				submittedAt: locked.submittedAt ?? now,
+				updatedAt: now
+			})
+			.where(eq(job.id, jobId));
+		return 'ok';
+	});
+}
+
+/** What still stops a draft from posting, each tied to the step that fixes it. */
+export function draftProblems(draft: Job, now = new Date()): PostProblem[] {
+	const problems: PostProblem[] = [];
+	const parsed = jobRequestSchema.safeParse(draft.draft);
+	if (!parsed.success) {
+		const vehicleFields = new Set([
+			'make',
+			'model',
+			'year',
+			'bodyStyle',
+			'fuseFamily',
+			'batteryType',
+			'batteryAh',
+			'startStop',
+			'hybridOrEv',
+			'curtainAirbags'
+		]);
+		const powerFields = new Set(['power', 'parkingDrawMilliamps', 'cutOffVolts']);
+		for (const issue of parsed.error.issues) {
+			const field = String(issue.path[0] ?? '');
+			const step: JobStep = vehicleFields.has(field)
+				? 'vehicle'
+				: powerFields.has(field)
+					? 'power'
+					: 'cameras';
+			if (!problems.some((p) => p.step === step)) problems.push({ step, message: issue.message });
+		}
+	}
+	if (draft.latitude === null || draft.longitude === null || draft.preferredWindows.length === 0) {
+		problems.push({ step: 'place', message: 'Say where the car will be and when suits you' });
+	} else {
+		const dateProblem = checkPreferredDates(draft.preferredWindows, draft.timeZone, now);
+		if (dateProblem)
+			problems.push({ step: 'place', message: `Preferred dates: ${dateProblem.toLowerCase()}` });
+	}
+	return problems;
+}
+
+/** Withdraws a job that is not booked, with the owner's reason. */
+export async function withdrawJob(
+	jobId: string,
+	ownerId: string,
+	reason: string
+): Promise<JobChange> {
+	return db.transaction(async (tx) => {
+		if (!uuid.safeParse(jobId).success) return 'not-found';
+		const [row] = await tx
+			.select({ status: job.status })
+			.from(job)
+			.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
+			.for('update');
+		if (!row) return 'not-found';
+		if (!EDITABLE.has(row.status)) return 'locked';
+		await tx
+			.update(job)
+			.set({
+				status: 'withdrawn',
+				withdrawnReason: reason,
+				withdrawnAt: new Date(),
+				updatedAt: new Date()
+			})
+			.where(eq(job.id, jobId));
+		return 'ok';
+	});
+}
+
+export const JOB_SORTS = ['created', 'status', 'date', 'quotes'] as const;
+export type JobSort = (typeof JOB_SORTS)[number];
+
+/** One page of an owner's jobs with quote counts, sorted as asked. */
+export async function listOwnerJobs(
+	ownerId: string,
+	options: { sort: JobSort; dir: 'asc' | 'desc'; page: number; pageSize: number }
+) {
+	const quotes = quoteCount();
+	const firstDate = sql<string | null>`(${job.preferredWindows} -> 0 ->> 'date')`;
+	const keys: Record<JobSort, SQL | typeof job.createdAt | typeof job.status> = {
+		created: job.createdAt,
+		status: job.status,
+		date: firstDate,
+		quotes
+	};
+	const order = options.dir === 'asc' ? asc : desc;
+	const [rows, [total]] = await Promise.all([
+		db
+			.select({
+				id: job.id,
+				title: job.title,
+				status: job.status,
+				draft: job.draft,
+				createdAt: job.createdAt,
+				firstDate,
+				suburb: job.suburb,
+				quotes
+			})
+			.from(job)
+			.where(eq(job.ownerId, ownerId))
+			.orderBy(order(keys[options.sort]), desc(job.createdAt))
+			.limit(options.pageSize)
+			.offset((options.page - 1) * options.pageSize),
+		db.select({ n: count() }).from(job).where(eq(job.ownerId, ownerId))
+	]);
+	return {
+		rows: rows.map(({ draft, ...r }) => ({
+			...r,
+			title:
+				r.title ??
+				([draft.year, draft.make, draft.model].filter(Boolean).join(' ') || 'Untitled draft')
+		})),
+		total: total?.n ?? 0
+	};
+}
+
+/** The job's photos, by kind. */
+export function listJobPhotos(jobId: string) {
+	return db
+		.select({
+			id: jobPhoto.id,
+			kind: jobPhoto.kind,
+			width: jobPhoto.width,
+			height: jobPhoto.height
+		})
+		.from(jobPhoto)
+		.where(eq(jobPhoto.jobId, jobId))
+		.orderBy(jobPhoto.kind);
+}
+
+/**
+ * Records an uploaded photo for a job, replacing any earlier one of the same kind. Returns the
+ * storage keys the caller should delete (the replaced photo's), or a refusal.
+ */
+export async function saveJobPhoto(
+	jobId: string,
+	ownerId: string,
+	kind: PhotoKind,
+	stored: { objectKey: string; thumbKey: string; width: number; height: number; bytes: number }
+): Promise<Exclude<JobChange, 'ok'> | { replaced: string[] }> {
+	return db.transaction(async (tx) => {
+		const locked = await lockEditable(tx, jobId, ownerId);
+		if (typeof locked === 'string') return locked;
+		const [old] = await tx
+			.delete(jobPhoto)
+			.where(and(eq(jobPhoto.jobId, jobId), eq(jobPhoto.kind, kind)))
+			.returning({ objectKey: jobPhoto.objectKey, thumbKey: jobPhoto.thumbKey });
+		await tx.insert(jobPhoto).values({ jobId, kind, ...stored });
+		return { replaced: old ? [old.objectKey, old.thumbKey] : [] };
+	});
+}
+
+/** Removes a job's photo of one kind; returns the storage keys to delete. */
+export async function removeJobPhoto(
+	jobId: string,
+	ownerId: string,
+	kind: PhotoKind
+): Promise<Exclude<JobChange, 'ok'> | { removed: string[] }> {
+	return db.transaction(async (tx) => {
+		const locked = await lockEditable(tx, jobId, ownerId);
+		if (typeof locked === 'string') return locked;
+		const [old] = await tx
+			.delete(jobPhoto)
+			.where(and(eq(jobPhoto.jobId, jobId), eq(jobPhoto.kind, kind)))
+			.returning({ objectKey: jobPhoto.objectKey, thumbKey: jobPhoto.thumbKey });
+		return { removed: old ? [old.objectKey, old.thumbKey] : [] };
+	});
+}
+
+export interface Viewer {
+	id: string;
+	role: 'owner' | 'installer' | 'admin';
+}
+
+/**
+ * A job photo's storage key when the viewer may see it: the job's owner and admins always;
+ * vetted installers once the job is open for quotes or booked (they need the fuse box to quote).
+ */
+export async function findViewableJobPhoto(
+	photoId: string,
+	viewer: Viewer,
+	isVettedInstaller: (id: string) => Promise<boolean>
+): Promise<{ objectKey: string; thumbKey: string } | null> {
+	if (!uuid.safeParse(photoId).success) return null;
+	const [row] = await db
+		.select({
+			objectKey: jobPhoto.objectKey,
+			thumbKey: jobPhoto.thumbKey,
+			ownerId: job.ownerId,
+			status: job.status
+		})
+		.from(jobPhoto)
+		.innerJoin(job, eq(job.id, jobPhoto.jobId))
+		.where(eq(jobPhoto.id, photoId));
+	if (!row) return null;
+	const allowed =
+		viewer.role === 'admin' ||
+		(viewer.role === 'owner' && row.ownerId === viewer.id) ||
+		(viewer.role === 'installer' &&
+			(row.status === 'collecting_quotes' || row.status === 'booked') &&
+			(await isVettedInstaller(viewer.id)));
+	return allowed ? { objectKey: row.objectKey, thumbKey: row.thumbKey } : null;
+}

@@ -1,0 +1,60 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { photoKindSchema, type PhotoKind } from '$lib/forms/job';
+import { listJobPhotos, removeJobPhoto, saveJobPhoto } from '$lib/server/jobs';
+import { loadEditableJob } from '$lib/server/owner-jobs';
+import { deleteObject } from '$lib/server/storage';
+import { discardUpload, storeUpload } from '$lib/server/uploads';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ params }) => {
+	const { job } = await loadEditableJob(params.id);
+	return { photos: await listJobPhotos(job.id) };
+};
+
+const refuse = (kind: string, problem: string, status = 400) => fail(status, { kind, problem });
+
+export const actions = {
+	upload: async ({ request, params }) => {
+		const { owner, job } = await loadEditableJob(params.id);
+		const data = await request.formData();
+		const kind = photoKindSchema.safeParse(data.get('kind'));
+		if (!kind.success) return refuse('', 'Say which photo this is.');
+		const outcome = await storeUpload(data.get('photo'), `job-photos/${job.id}`);
+		if (!outcome.ok) return refuse(kind.data, outcome.problem);
+		const { objectKey, thumbKey, width, height, bytes } = outcome.stored;
+		let result;
+		try {
+			result = await saveJobPhoto(job.id, owner.id, kind.data as PhotoKind, {
+				objectKey,
+				thumbKey: thumbKey!,
+				width: width!,
+				height: height!,
+				bytes
+			});
+		} catch (err) {
+			await discardUpload(outcome.stored);
+			throw err;
+		}
+		if (typeof result === 'string') {
+			await discardUpload(outcome.stored);
+			if (result === 'not-found') error(404, 'There is no such job among yours.');
+			return refuse(kind.data, 'This job can no longer change.', 409);
+		}
+		await Promise.allSettled(result.replaced.map((key) => deleteObject(key)));
+		return { kind: kind.data, saved: true };
+	},
+	remove: async ({ request, params }) => {
+		const { owner, job } = await loadEditableJob(params.id);
+		const kind = photoKindSchema.safeParse((await request.formData()).get('kind'));
+		if (!kind.success) return refuse('', 'Say which photo to remove.');
+		const result = await removeJobPhoto(job.id, owner.id, kind.data);
+		if (result === 'not-found') error(404, 'There is no such job among yours.');
+		if (result === 'locked') return refuse(kind.data, 'This job can no longer change.', 409);
+		await Promise.allSettled(result.removed.map((key) => deleteObject(key)));
+		return { kind: kind.data, removed: true };
+	},
+	next: async ({ params }) => {
+		await loadEditableJob(params.id);
+		redirect(303, `/owner/jobs/${params.id}/review`);
+	}
+} satisfies Actions;
