@@ -5,9 +5,19 @@
 import { count } from 'drizzle-orm';
 import { drizzle } from 'drizzle-orm/node-postgres';
 import pg from 'pg';
-import { installerProfile, user } from '../src/lib/server/db/schema';
+import { installerHours, installerProfile, user, vettingEvent } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/password';
-import { DEMO_ADMIN, DEMO_INSTALLERS, DEMO_OWNERS, DEMO_PASSWORD, suburbPoint } from './scenario';
+import {
+	DEMO_ADMIN,
+	DEMO_INSTALLERS,
+	DEMO_OWNERS,
+	DEMO_PASSWORD,
+	demoInstallerDetails,
+	demoWeeklyHours,
+	suburbPoint
+} from './scenario';
+
+const ALL_TICKED = { identityMatches: true, insuranceCurrent: true, abnValidAndActive: true };
 
 /** Inserts the scenario in one transaction; returns false when the database already had accounts. */
 export async function seedDemo(databaseUrl: string): Promise<boolean> {
@@ -18,10 +28,11 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 		if ((existing?.n ?? 0) > 0) return false;
 		const passwordHash = await hashPassword(DEMO_PASSWORD);
 		const verified = new Date();
+		const adminId = crypto.randomUUID();
 		await db.transaction(async (tx) => {
 			await tx.insert(user).values([
 				{
-					id: crypto.randomUUID(),
+					id: adminId,
 					...DEMO_ADMIN,
 					role: 'admin',
 					passwordHash,
@@ -35,8 +46,10 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 					emailVerifiedAt: verified
 				}))
 			]);
-			for (const i of DEMO_INSTALLERS) {
+			for (const [index, i] of DEMO_INSTALLERS.entries()) {
 				const id = crypto.randomUUID();
+				const details = demoInstallerDetails(index, verified);
+				const submittedAt = new Date(verified.getTime() - (40 - index) * 86_400_000);
 				const point = suburbPoint(i.suburb);
 				await tx.insert(user).values({
 					id,
@@ -56,13 +69,80 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 					serviceRadiusKm: i.radiusKm,
 					offersMobile: i.mobile,
 					offersWorkshop: i.workshop,
-					vettingStatus: i.status
+					vettingStatus: i.status,
+					submittedAt,
+					...details
 				});
+				await tx
+					.insert(installerHours)
+					.values(demoWeeklyHours(index).map((h) => ({ installerId: id, ...h })));
+				await tx.insert(vettingEvent).values(demoTrail(id, adminId, i.status, submittedAt));
 			}
 		});
 		return true;
 	} finally {
 		await pool.end();
+	}
+}
+
+/** The audit trail that leads to each demo installer's standing. */
+function demoTrail(
+	installerId: string,
+	adminId: string,
+	status: (typeof DEMO_INSTALLERS)[number]['status'],
+	submittedAt: Date
+) {
+	const later = (days: number) => new Date(submittedAt.getTime() + days * 86_400_000);
+	const submit = {
+		installerId,
+		actorId: installerId,
+		action: 'submit',
+		fromStatus: null,
+		toStatus: 'applied' as const,
+		createdAt: submittedAt
+	};
+	const approve = {
+		installerId,
+		actorId: adminId,
+		action: 'approve',
+		fromStatus: 'applied' as const,
+		toStatus: 'approved' as const,
+		checklist: ALL_TICKED,
+		reason: 'ABN active on the register; certificate and ID match.',
+		createdAt: later(2)
+	};
+	switch (status) {
+		case 'approved':
+			return [submit, approve];
+		case 'suspended':
+			return [
+				submit,
+				approve,
+				{
+					installerId,
+					actorId: adminId,
+					action: 'suspend',
+					fromStatus: 'approved' as const,
+					toStatus: 'suspended' as const,
+					reason: 'Two owners reported unfinished fits; suspended while we talk it through.',
+					createdAt: later(20)
+				}
+			];
+		case 'waiting_on_installer':
+			return [
+				submit,
+				{
+					installerId,
+					actorId: adminId,
+					action: 'request-info',
+					fromStatus: 'applied' as const,
+					toStatus: 'waiting_on_installer' as const,
+					reason: 'The photo ID is blurred; please upload a clearer photo.',
+					createdAt: later(1)
+				}
+			];
+		default:
+			return [submit];
 	}
 }
 

@@ -3,6 +3,8 @@
  * suburbs, postcodes and their coordinates are real (approximate centres).
  */
 import { ADELAIDE_SUBURBS } from '../local-fakes/data/adelaide-suburbs';
+import { isValidAbn } from '../src/lib/abn';
+import type { InstallerSkill } from '../src/lib/vetting';
 
 export const DEMO_PASSWORD = 'tapline-demo-2026';
 
@@ -154,4 +156,76 @@ export function suburbPoint(name: string) {
 	const found = ADELAIDE_SUBURBS.find((s) => s.name === name);
 	if (!found) throw new Error(`Unknown demo suburb: ${name}`);
 	return found;
+}
+
+/** What each demo installer fits, by position in {@link DEMO_INSTALLERS}. */
+const SKILL_SETS: readonly InstallerSkill[][] = [
+	['parking-mode', 'tailgate-rear', 'vans-utes', 'obd-power', 'cabin-camera'],
+	['parking-mode', 'tailgate-rear', 'cabin-camera'],
+	['parking-mode', 'vans-utes', 'obd-power'],
+	['parking-mode', 'tailgate-rear'],
+	['parking-mode', 'vans-utes', 'tailgate-rear'],
+	['parking-mode', 'obd-power'],
+	['parking-mode', 'tailgate-rear', 'vans-utes'],
+	['parking-mode', 'cabin-camera'],
+	['parking-mode', 'tailgate-rear', 'obd-power'],
+	['parking-mode'],
+	['parking-mode', 'tailgate-rear', 'cabin-camera'],
+	['parking-mode', 'vans-utes']
+];
+
+const INSURERS = ['Gumleaf Mutual', 'Saltbush Underwriting', 'Red Gum Trade Cover'] as const;
+
+/**
+ * An invented ABN that passes the ABN check: the nine digits after the first two are made from
+ * `seed`, and the first two are the one pair (10–99) that makes the weighted sum divide by 89.
+ * (Australian Business Register, "ABN format": the pair's weighted value (d1 − 1) x 10 + d2 runs
+ * through 0–89, so exactly one residue class fits.)
+ */
+export function demoAbn(seed: number): string {
+	const body = String(100_000_000 + ((seed * 7_654_321) % 900_000_000)).slice(0, 9);
+	for (let first = 1; first <= 9; first++) {
+		for (let second = 0; second <= 9; second++) {
+			const abn = `${first}${second}${body}`;
+			if (isValidAbn(abn)) return abn;
+		}
+	}
+	throw new Error(`No ABN prefix fits ${body}`);
+}
+
+const addDays = (day: Date, days: number) =>
+	new Date(day.getTime() + days * 86_400_000).toISOString().slice(0, 10);
+
+/** The application details of the demo installer at `index`, relative to the seeding date. */
+export function demoInstallerDetails(index: number, today: Date) {
+	const installer = DEMO_INSTALLERS[index];
+	if (!installer) throw new Error(`No demo installer ${index}`);
+	return {
+		contactName: installer.displayName,
+		phone: `04${String(10_000_000 + index * 1_234_567).slice(0, 8)}`,
+		abn: demoAbn(index + 1),
+		yearsInTrade: 2 + ((index * 5) % 19),
+		skills: SKILL_SETS[index] ?? ['parking-mode'],
+		workshopAddress: installer.workshop ? `${10 + index * 3} Demo Lane, ${installer.suburb}` : null,
+		travelFeeCentsPerKm: installer.mobile ? 100 + (index % 3) * 50 : 0,
+		freeRadiusKm: installer.mobile ? 10 : 0,
+		insurer: INSURERS[index % INSURERS.length] ?? INSURERS[0],
+		policyNumber: `PL-${String(400_000 + index * 7919)}`,
+		// $20M for most, $10M (the default minimum) for a few.
+		coverCents: index % 4 === 3 ? 10_000_000_00 : 20_000_000_00,
+		// Well past the 30-day reminder, so a fresh demo sends no reminders on its first morning.
+		insuranceExpiresOn: addDays(today, 120 + index * 20)
+	};
+}
+
+/** Weekly hours of the demo installers: weekdays 08:00–17:00, every third one Saturdays too. */
+export function demoWeeklyHours(index: number) {
+	const weekdays = [1, 2, 3, 4, 5].map((weekday) => ({
+		weekday,
+		startMinute: 8 * 60,
+		endMinute: 17 * 60
+	}));
+	return index % 3 === 0
+		? [...weekdays, { weekday: 6, startMinute: 9 * 60, endMinute: 13 * 60 }]
+		: weekdays;
 }

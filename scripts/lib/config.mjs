@@ -51,6 +51,8 @@ export function appEnv(config, databaseUrl) {
 		HOST: '127.0.0.1',
 		PORT: String(config.appPort),
 		ORIGIN: origin,
+		// adapter-node refuses bodies over 512 kB by default; uploads may be 10 MB (see src/lib/uploads.ts).
+		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? '12M',
 		SMTP_HOST: process.env.SMTP_HOST ?? '127.0.0.1',
 		SMTP_PORT: process.env.SMTP_PORT ?? String(f.FAKE_SMTP_PORT),
 		MAIL_FROM: process.env.MAIL_FROM ?? 'Tapline <hello@tapline.test>',

@@ -119,3 +119,24 @@ test('withdrawing asks for a reason and a confirmation', async ({ ownerPage: pag
 	await expect(page.getByTestId('job-status')).toHaveText('Withdrawn');
 	await expect(page.getByText('Withdrawn: Changed my mind')).toBeVisible();
 });
+
+test('an oversized photo is refused with its size and the limit, and nothing is stored', async ({
+	ownerPage: page
+}) => {
+	await page.getByRole('button', { name: 'Describe a new job' }).click();
+	await page.waitForURL(/\/vehicle$/);
+	await page.goto(page.url().replace(/vehicle$/, 'photos'));
+	// 11 MiB that starts like a JPEG: refused on size before anything is decoded.
+	const big = Buffer.alloc(11 * 1024 * 1024, 0);
+	big.set([0xff, 0xd8, 0xff, 0xe0]);
+	const windscreen = page.getByTestId('photo-windscreen');
+	await windscreen
+		.locator('input[type=file]')
+		.setInputFiles({ name: 'huge.jpg', mimeType: 'image/jpeg', buffer: big });
+	await windscreen.getByRole('button', { name: 'Upload photo' }).click();
+	await expect(windscreen.getByRole('alert')).toHaveText(
+		'The file is 11.0 MB; the limit is 10 MB.'
+	);
+	await page.reload();
+	await expect(page.getByTestId('photo-windscreen').getByRole('img')).toHaveCount(0);
+});

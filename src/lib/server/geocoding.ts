@@ -57,6 +57,7 @@ export async function searchPlaces(query: string, limit = 5): Promise<Place[]> {
 	url.search = new URLSearchParams({
 		q: query,
 		format: 'json',
+		addressdetails: '1',
 		countrycodes: 'au',
 		limit: String(limit)
 	}).toString();
@@ -70,7 +71,8 @@ export async function reversePlace(lat: number, lng: number): Promise<Place | nu
 	url.search = new URLSearchParams({
 		lat: String(lat),
 		lon: String(lng),
-		format: 'json'
+		format: 'json',
+		addressdetails: '1'
 	}).toString();
 	const parsed = placeSchema.safeParse(await getJson(url));
 	return parsed.success ? toPlace(parsed.data) : null;

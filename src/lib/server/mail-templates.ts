@@ -19,7 +19,35 @@ interface Block {
 export type EmailTemplate =
 	| { template: 'verify-email'; data: { displayName: string; url: string } }
 	| { template: 'reset-password'; data: { displayName: string; url: string } }
-	| { template: 'admin-invite'; data: { displayName: string; invitedBy: string; url: string } };
+	| { template: 'admin-invite'; data: { displayName: string; invitedBy: string; url: string } }
+	| { template: 'vetting-received'; data: VettingMailData }
+	| { template: 'vetting-more-info'; data: VettingMailData & { message: string } }
+	| { template: 'vetting-approved'; data: VettingMailData }
+	| { template: 'vetting-rejected'; data: VettingMailData & { reason: string } }
+	| { template: 'vetting-suspended'; data: VettingMailData & { reason: string } }
+	| { template: 'vetting-reinstated'; data: VettingMailData }
+	| {
+			template: 'insurance-reminder';
+			data: VettingMailData & { expiresOn: string; daysBefore: number };
+	  }
+	| { template: 'insurance-paused'; data: VettingMailData & { reason: string } }
+	| { template: 'insurance-approved'; data: VettingMailData };
+
+/** What every vetting e-mail needs: whom it greets and where their status page is. */
+export interface VettingMailData {
+	displayName: string;
+	businessName: string;
+	url: string;
+}
+
+/** 'YYYY-MM-DD' as '4 October 2026'; the date is a calendar date, so no zone applies. */
+const formatDay = (day: string) =>
+	new Date(`${day}T00:00:00Z`).toLocaleDateString('en-AU', {
+		day: 'numeric',
+		month: 'long',
+		year: 'numeric',
+		timeZone: 'UTC'
+	});
 
 const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
@@ -87,6 +115,88 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 				action: { label: 'Set my password', url: message.data.url },
 				footnote:
 					'The link works for one hour. Ask for a new one from the sign-in page if it runs out.'
+			});
+		case 'vetting-received':
+			return renderBlock('We have your installer application', {
+				heading: `Thanks ${message.data.displayName}, your application is in`,
+				paragraphs: [
+					`An admin will check the ABN, insurance and photo ID for ${message.data.businessName}, usually within two working days.`,
+					'We will e-mail you when there is a decision or if we need anything else.'
+				],
+				action: { label: 'See where it stands', url: message.data.url }
+			});
+		case 'vetting-more-info':
+			return renderBlock('We need a little more for your application', {
+				heading: `Hi ${message.data.displayName}, one more thing before we decide`,
+				paragraphs: [
+					`The admin checking ${message.data.businessName} wrote:`,
+					message.data.message,
+					'Add what is asked on your status page, then send the application again.'
+				],
+				action: { label: 'Open my application', url: message.data.url }
+			});
+		case 'vetting-approved':
+			return renderBlock('You are vetted on Tapline', {
+				heading: `Welcome aboard, ${message.data.displayName}`,
+				paragraphs: [
+					`${message.data.businessName} is now a vetted installer. Your profile shows the vetted badge, and jobs in your service area are open to your quotes.`,
+					'Keep your insurance current: we remind you 30 and 7 days before it expires.'
+				],
+				action: { label: 'Go to my work', url: message.data.url }
+			});
+		case 'vetting-rejected':
+			return renderBlock('Your installer application was not approved', {
+				heading: `Hi ${message.data.displayName}, we could not approve this application`,
+				paragraphs: [
+					`The admin who reviewed ${message.data.businessName} gave this reason:`,
+					message.data.reason,
+					'Reply to this e-mail if you think something was misread.'
+				],
+				action: { label: 'See my application', url: message.data.url }
+			});
+		case 'vetting-suspended':
+			return renderBlock('Your Tapline installer account is suspended', {
+				heading: `Hi ${message.data.displayName}, quoting is suspended`,
+				paragraphs: [
+					`An admin suspended ${message.data.businessName} for this reason:`,
+					message.data.reason,
+					'Reply to this e-mail if you want to talk it through with the admin team.'
+				],
+				action: { label: 'See my status', url: message.data.url }
+			});
+		case 'vetting-reinstated':
+			return renderBlock('Your Tapline installer account is active again', {
+				heading: `Good news, ${message.data.displayName}`,
+				paragraphs: [
+					`An admin lifted the suspension on ${message.data.businessName}. You can quote on jobs again.`
+				],
+				action: { label: 'Go to my work', url: message.data.url }
+			});
+		case 'insurance-reminder':
+			return renderBlock(`Your insurance expires in ${message.data.daysBefore} days`, {
+				heading: `Hi ${message.data.displayName}, time to renew your cover`,
+				paragraphs: [
+					`The public liability certificate on file for ${message.data.businessName} runs out on ${formatDay(message.data.expiresOn)}.`,
+					'Upload the renewed certificate and its details before then. If it lapses, quoting pauses until an admin approves the new one.'
+				],
+				action: { label: 'Upload my new certificate', url: message.data.url }
+			});
+		case 'insurance-paused':
+			return renderBlock('Quoting is paused on Tapline', {
+				heading: `Hi ${message.data.displayName}, your quoting is paused`,
+				paragraphs: [
+					message.data.reason,
+					`Once an admin approves a current certificate for ${message.data.businessName}, quoting starts again by itself.`
+				],
+				action: { label: 'Upload my certificate', url: message.data.url }
+			});
+		case 'insurance-approved':
+			return renderBlock('Your new insurance is approved', {
+				heading: `Thanks ${message.data.displayName}, you can quote again`,
+				paragraphs: [
+					`An admin checked the new certificate for ${message.data.businessName}. The pause is lifted.`
+				],
+				action: { label: 'Go to my work', url: message.data.url }
 			});
 	}
 }

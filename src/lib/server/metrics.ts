@@ -9,6 +9,8 @@ export async function getPlatformCounts() {
 		db
 			.select({ status: installerProfile.vettingStatus, n: count() })
 			.from(installerProfile)
+			// Drafts (never submitted) are not waiting on anyone.
+			.where(isNotNull(installerProfile.submittedAt))
 			.groupBy(installerProfile.vettingStatus),
 		db.select({ n: count() }).from(emailOutbox).where(isNull(emailOutbox.sentAt)),
 		db

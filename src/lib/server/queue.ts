@@ -6,9 +6,11 @@
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 import { deliverEmail, listStrandedEmails } from './mail';
+import { runInsuranceExpiryCheck } from './vetting';
 
 export const EMAIL_QUEUE = 'email-deliver';
 const EMAIL_SWEEP = 'email-sweep';
+export const INSURANCE_EXPIRY_QUEUE = 'insurance-expiry';
 
 let boss: PgBoss | undefined;
 let starting: Promise<PgBoss> | undefined;
@@ -48,6 +50,21 @@ export function startQueue(): Promise<PgBoss> {
 			for (const id of await listStrandedEmails(5 * 60_000)) {
 				await instance.send(EMAIL_QUEUE, { id });
 			}
+		});
+		// Daily at 06:00 Adelaide time, before the working day: pg-boss keeps one schedule per queue
+		// across all processes and runs it once, and the check itself is idempotent, so a retry or a
+		// second run the same day sends nothing twice.
+		await instance.createQueue(INSURANCE_EXPIRY_QUEUE, {
+			name: INSURANCE_EXPIRY_QUEUE,
+			retryLimit: 3,
+			retryDelay: 300
+		});
+		await instance.schedule(INSURANCE_EXPIRY_QUEUE, '0 6 * * *', undefined, {
+			tz: 'Australia/Adelaide'
+		});
+		await instance.work(INSURANCE_EXPIRY_QUEUE, async () => {
+			const result = await runInsuranceExpiryCheck();
+			await Promise.all(result.emailIds.map((id) => instance.send(EMAIL_QUEUE, { id })));
 		});
 		boss = instance;
 		return instance;

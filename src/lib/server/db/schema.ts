@@ -16,6 +16,7 @@ import {
 	uuid,
 	varchar
 } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
 import type { JobRequestInput } from '../../scope/request';
 import type { ScopeSheet } from '../../scope';
 
@@ -260,6 +261,8 @@ export const job = pgTable(
 		priceLowCents: integer('price_low_cents'),
 		priceHighCents: integer('price_high_cents'),
 		withdrawnReason: text('withdrawn_reason'),
+		/** When the owner was last e-mailed about new quotes (quotes after this are in the next batch). */
+		quotesNotifiedAt: timestamp('quotes_notified_at', { withTimezone: true }),
 		withdrawnAt: timestamp('withdrawn_at', { withTimezone: true }),
 		submittedAt: timestamp('submitted_at', { withTimezone: true }),
 		createdAt: createdAt(),
@@ -296,9 +299,27 @@ export const rateLimit = pgTable('rate_limit', {
 	expire: bigint('expire', { mode: 'number' })
 });
 
+/** Where a quote stands. Names are Tapline's own. */
+export const quoteStatus = pgEnum('quote_status', ['live', 'accepted', 'declined', 'withdrawn', 'lapsed']);
+
+/** One priced line of a quote, in GST-inclusive integer cents. */
+export interface QuoteLine {
+	kind: 'labour' | 'part' | 'travel' | 'camera';
+	label: string;
+	quantity: number;
+	unitCents: number;
+	totalCents: number;
+}
+
+/** A proposed time for the fit, as UTC instants (ISO strings). */
+export interface QuoteSlot {
+	start: string;
+	end: string;
+}
+
 /**
- * An installer's quote on a job: one per installer per job (revisions arrive with the quoting
- * feature). Jobs count these to decide whether the owner may still edit.
+ * An installer's quote on a job: one per installer per job, revised in place until the owner books
+ * (every revision is kept in quote_revision). Amounts are GST-inclusive integer cents.
  */
 export const quote = pgTable(
 	'quote',
@@ -310,15 +331,132 @@ export const quote = pgTable(
 		installerId: text('installer_id')
 			.notNull()
 			.references(() => installerProfile.userId),
+		status: quoteStatus('status').notNull().default('live'),
+		revision: integer('revision').notNull().default(1),
+		lines: jsonb('lines').$type<QuoteLine[]>().notNull().default([]),
+		labourCents: integer('labour_cents').notNull().default(0),
+		partsCents: integer('parts_cents').notNull().default(0),
+		travelCents: integer('travel_cents').notNull().default(0),
+		totalCents: integer('total_cents').notNull(),
+		gstCents: integer('gst_cents').notNull().default(0),
+		warrantyMonths: smallint('warranty_months').notNull().default(12),
+		cameraSupplied: boolean('camera_supplied').notNull().default(false),
+		slots: jsonb('slots').$type<QuoteSlot[]>().notNull().default([]),
+		message: text('message'),
+		distanceKm: doublePrecision('distance_km'),
+		expiresAt: timestamp('expires_at', { withTimezone: true }),
+		createdAt: createdAt(),
+		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [
+		uniqueIndex('quote_job_installer_idx').on(t.jobId, t.installerId),
+		index('quote_installer_idx').on(t.installerId)
+	]
+);
+
+/** Every revision of every quote, as it was sent; never updated. */
+export const quoteRevision = pgTable(
+	'quote_revision',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		quoteId: uuid('quote_id')
+			.notNull()
+			.references(() => quote.id, { onDelete: 'cascade' }),
+		revision: integer('revision').notNull(),
+		snapshot: jsonb('snapshot').$type<Record<string, unknown>>().notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [uniqueIndex('quote_revision_quote_rev_idx').on(t.quoteId, t.revision)]
+);
+
+/** Where a booking stands: provisional until paid into held funds. */
+export const bookingStatus = pgEnum('booking_status', [
+	'awaiting_payment',
+	'confirmed',
+	'cancelled',
+	'lapsed'
+]);
+
+/**
+ * The owner's choice of one quote and one slot. One booking per job and per quote (unique), and an
+ * installer's live bookings may not overlap in time (exclusion constraint in migration 0002).
+ */
+export const booking = pgTable(
+	'booking',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id),
+		quoteId: uuid('quote_id')
+			.notNull()
+			.references(() => quote.id),
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId),
+		ownerId: text('owner_id')
+			.notNull()
+			.references(() => user.id),
+		slotStart: timestamp('slot_start', { withTimezone: true }).notNull(),
+		slotEnd: timestamp('slot_end', { withTimezone: true }).notNull(),
+		status: bookingStatus('status').notNull().default('awaiting_payment'),
+		/** A provisional booking holds the slot until then; the payment step confirms it. */
+		holdExpiresAt: timestamp('hold_expires_at', { withTimezone: true }).notNull(),
 		totalCents: integer('total_cents').notNull(),
 		createdAt: createdAt()
 	},
-	(t) => [uniqueIndex('quote_job_installer_idx').on(t.jobId, t.installerId)]
+	(t) => [
+		uniqueIndex('booking_live_job_idx')
+			.on(t.jobId)
+			.where(sql`status in ('awaiting_payment', 'confirmed')`),
+		index('booking_installer_idx').on(t.installerId, t.slotStart)
+	]
+);
+
+/**
+ * Questions and answers about a job between its owner and one quoting installer. Contact details
+ * are masked before storage while the job is unbooked (see $lib/masking).
+ */
+export const jobMessage = pgTable(
+	'job_message',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId),
+		authorId: text('author_id')
+			.notNull()
+			.references(() => user.id),
+		body: text('body').notNull(),
+		masked: text('masked').array().notNull().default([]),
+		createdAt: createdAt()
+	},
+	(t) => [index('job_message_thread_idx').on(t.jobId, t.installerId, t.createdAt)]
+);
+
+/** Which jobs an installer has been told about, so digests never repeat a job. */
+export const jobNotice = pgTable(
+	'job_notice',
+	{
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId, { onDelete: 'cascade' }),
+		jobId: uuid('job_id')
+			.notNull()
+			.references(() => job.id, { onDelete: 'cascade' }),
+		noticedAt: createdAt()
+	},
+	(t) => [primaryKey({ columns: [t.installerId, t.jobId] })]
 );
 
 export type User = typeof user.$inferSelect;
 export type Role = (typeof userRole.enumValues)[number];
 export type InstallerProfile = typeof installerProfile.$inferSelect;
 export type Job = typeof job.$inferSelect;
+export type Quote = typeof quote.$inferSelect;
+export type Booking = typeof booking.$inferSelect;
 export type JobStatus = (typeof jobStatus.enumValues)[number];
 export type VettingStatus = (typeof vettingStatus.enumValues)[number];

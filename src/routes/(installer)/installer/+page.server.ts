@@ -1,19 +1,35 @@
-import { eq } from 'drizzle-orm';
-import { db } from '$lib/server/db';
-import { installerProfile } from '$lib/server/db/schema';
+import { fail, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/guards';
-import type { PageServerLoad } from './$types';
+import { requestEmailDelivery } from '$lib/server/queue';
+import { getApplicationStatus, submitApplication } from '$lib/server/vetting';
+import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
 	const installer = requireRole('installer');
-	const [profile] = await db
-		.select({
-			businessName: installerProfile.businessName,
-			suburb: installerProfile.suburb,
-			vettingStatus: installerProfile.vettingStatus,
-			serviceRadiusKm: installerProfile.serviceRadiusKm
-		})
-		.from(installerProfile)
-		.where(eq(installerProfile.userId, installer.id));
-	return { displayName: installer.displayName, profile: profile ?? null };
+	const status = await getApplicationStatus(installer.id);
+	const p = status.profile;
+	return {
+		displayName: installer.displayName,
+		installerId: installer.id,
+		stage: status.stage,
+		missing: status.missing,
+		lastMessage: status.lastMessage,
+		profile: p && {
+			businessName: p.businessName,
+			suburb: p.suburb,
+			serviceRadiusKm: p.serviceRadiusKm,
+			pausedReason: p.pausedReason,
+			insuranceExpiresOn: p.insuranceExpiresOn
+		}
+	};
 };
+
+export const actions = {
+	submit: async () => {
+		const installer = requireRole('installer');
+		const result = await submitApplication(installer.id);
+		if (!result.ok) return fail(result.status, { problem: result.message });
+		await requestEmailDelivery(result.emailIds);
+		redirect(303, '/installer?sent=1');
+	}
+} satisfies Actions;

@@ -1,0 +1,40 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { decisionSchema } from '$lib/forms/vetting';
+import { requireRole } from '$lib/server/guards';
+import { requestEmailDelivery } from '$lib/server/queue';
+import { decideApplication, getApplicationForReview } from '$lib/server/vetting';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ params }) => {
+	requireRole('admin');
+	const application = await getApplicationForReview(params.id);
+	if (!application) error(404, 'There is no such application.');
+	const form = await superValidate(
+		{ expectedStatus: application.profile.vettingStatus },
+		zod4(decisionSchema),
+		{ errors: false }
+	);
+	return { application, form };
+};
+
+export const actions = {
+	decide: async ({ request, params }) => {
+		const admin = requireRole('admin');
+		const form = await superValidate(request, zod4(decisionSchema));
+		if (!form.valid) return fail(400, { form });
+		const { decision, expectedStatus, message: text, ...checklist } = form.data;
+		const result = await decideApplication({
+			adminId: admin.id,
+			installerId: params.id,
+			decision,
+			expectedStatus,
+			message: text,
+			checklist
+		});
+		if (!result.ok) return message(form, result.message, { status: result.status });
+		await requestEmailDelivery(result.emailIds);
+		redirect(303, `/admin/vetting/${params.id}?decided=${decision}`);
+	}
+} satisfies Actions;

@@ -1,0 +1,77 @@
+import { fail } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { insuranceSchema } from '$lib/forms/vetting';
+import { requireRole } from '$lib/server/guards';
+import { requestEmailDelivery } from '$lib/server/queue';
+import { discardUpload, storeUpload } from '$lib/server/uploads';
+import {
+	addInstallerDocument,
+	getInstallerProfile,
+	listInstallerDocuments,
+	saveInsuranceDetails
+} from '$lib/server/vetting';
+import { DOCUMENT_TYPES, IMAGE_TYPES } from '$lib/uploads';
+import { DOCUMENT_KINDS, type DocumentKind } from '$lib/vetting';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => {
+	const installer = requireRole('installer');
+	const [p, documents] = await Promise.all([
+		getInstallerProfile(installer.id),
+		listInstallerDocuments(installer.id)
+	]);
+	const initial = p?.insurer
+		? {
+				insurer: p.insurer,
+				policyNumber: p.policyNumber ?? '',
+				coverDollars: Math.round((p.coverCents ?? 0) / 100),
+				expiresOn: p.insuranceExpiresOn ?? ''
+			}
+		: undefined;
+	const form = await superValidate(initial, zod4(insuranceSchema), { errors: false });
+	return { form, documents, hasProfile: p !== null };
+};
+
+export const actions = {
+	saveInsurance: async ({ request }) => {
+		const installer = requireRole('installer');
+		const form = await superValidate(request, zod4(insuranceSchema));
+		if (!form.valid) return fail(400, { form });
+		const { coverDollars, ...rest } = form.data;
+		const result = await saveInsuranceDetails(installer.id, {
+			...rest,
+			coverCents: coverDollars * 100
+		});
+		if (!result.ok) return message(form, result.message, { status: result.status });
+		await requestEmailDelivery(result.emailIds);
+		return message(
+			form,
+			result.paused
+				? 'Saved. Quoting is paused until an admin approves the new certificate.'
+				: 'Insurance details saved.'
+		);
+	},
+	upload: async ({ request }) => {
+		const installer = requireRole('installer');
+		const data = await request.formData();
+		const kind = String(data.get('kind') ?? '');
+		if (!DOCUMENT_KINDS.includes(kind as DocumentKind)) {
+			return fail(400, { uploadProblem: 'Choose what kind of document this is.' });
+		}
+		if (!(await getInstallerProfile(installer.id))) {
+			return fail(400, { uploadProblem: 'Save your application details first.' });
+		}
+		// Gallery photos are public, so they go through the photo path only (re-encoded, no EXIF).
+		const accepted = kind === 'gallery' ? IMAGE_TYPES : DOCUMENT_TYPES;
+		const outcome = await storeUpload(data.get('file'), `installers/${installer.id}`, accepted);
+		if (!outcome.ok) return fail(400, { uploadProblem: outcome.problem });
+		try {
+			await addInstallerDocument(installer.id, kind as DocumentKind, outcome.stored);
+		} catch (err) {
+			await discardUpload(outcome.stored);
+			throw err;
+		}
+		return { uploaded: outcome.stored.originalName };
+	}
+} satisfies Actions;
