@@ -300,7 +300,13 @@ export const rateLimit = pgTable('rate_limit', {
 });
 
 /** Where a quote stands. Names are Tapline's own. */
-export const quoteStatus = pgEnum('quote_status', ['live', 'accepted', 'declined', 'withdrawn', 'lapsed']);
+export const quoteStatus = pgEnum('quote_status', [
+	'live',
+	'accepted',
+	'declined',
+	'withdrawn',
+	'lapsed'
+]);
 
 /** One priced line of a quote, in GST-inclusive integer cents. */
 export interface QuoteLine {
