@@ -8,6 +8,7 @@ import {
 	listOwnerJobs,
 	postJob,
 	saveJobStep,
+	setJobPhoto,
 	withdrawJob
 } from '$lib/server/jobs';
 
@@ -171,5 +172,25 @@ describe('job drafts', () => {
 		expect(
 			(await listOwnerJobs(other, { sort: 'quotes', dir: 'asc', page: 1, pageSize: 10 })).total
 		).toBe(0);
+	});
+
+	it('replaces a photo of the same kind, reports the displaced objects, and guards ownership', async () => {
+		const owner = await makeUser('owner');
+		const stranger = await makeUser('owner');
+		const id = await createDraftJob(owner);
+		const photo = (n: number) => ({
+			objectKey: `k${n}.jpg`,
+			thumbKey: `k${n}-t.jpg`,
+			width: 10,
+			height: 10,
+			bytes: 100
+		});
+		expect(await setJobPhoto(id, owner, 'fuse-box', photo(1))).toEqual({ displaced: [] });
+		expect(await setJobPhoto(id, owner, 'fuse-box', photo(2))).toEqual({
+			displaced: ['k1.jpg', 'k1-t.jpg']
+		});
+		expect(await setJobPhoto(id, stranger, 'fuse-box')).toBe('not-found');
+		expect(await setJobPhoto(id, owner, 'fuse-box')).toEqual({ displaced: ['k2.jpg', 'k2-t.jpg'] });
+		expect(await setJobPhoto(id, owner, 'fuse-box')).toEqual({ displaced: [] });
 	});
 });

@@ -281,15 +281,15 @@ export function listJobPhotos(jobId: string) {
 }
 
 /**
- * Records an uploaded photo for a job, replacing any earlier one of the same kind. Returns the
- * storage keys the caller should delete (the replaced photo's), or a refusal.
+ * Replaces (with `stored`) or removes (without) the job's photo of one kind. Returns the storage
+ * keys of the photo it displaced, which the caller deletes after commit, or a refusal.
  */
-export async function saveJobPhoto(
+export async function setJobPhoto(
 	jobId: string,
 	ownerId: string,
 	kind: PhotoKind,
-	stored: { objectKey: string; thumbKey: string; width: number; height: number; bytes: number }
-): Promise<Exclude<JobChange, 'ok'> | { replaced: string[] }> {
+	stored?: { objectKey: string; thumbKey: string; width: number; height: number; bytes: number }
+): Promise<Exclude<JobChange, 'ok'> | { displaced: string[] }> {
 	return db.transaction(async (tx) => {
 		const locked = await lockEditable(tx, jobId, ownerId);
 		if (typeof locked === 'string') return locked;
@@ -297,25 +297,8 @@ export async function saveJobPhoto(
 			.delete(jobPhoto)
 			.where(and(eq(jobPhoto.jobId, jobId), eq(jobPhoto.kind, kind)))
 			.returning({ objectKey: jobPhoto.objectKey, thumbKey: jobPhoto.thumbKey });
-		await tx.insert(jobPhoto).values({ jobId, kind, ...stored });
-		return { replaced: old ? [old.objectKey, old.thumbKey] : [] };
-	});
-}
-
-/** Removes a job's photo of one kind; returns the storage keys to delete. */
-export async function removeJobPhoto(
-	jobId: string,
-	ownerId: string,
-	kind: PhotoKind
-): Promise<Exclude<JobChange, 'ok'> | { removed: string[] }> {
-	return db.transaction(async (tx) => {
-		const locked = await lockEditable(tx, jobId, ownerId);
-		if (typeof locked === 'string') return locked;
-		const [old] = await tx
-			.delete(jobPhoto)
-			.where(and(eq(jobPhoto.jobId, jobId), eq(jobPhoto.kind, kind)))
-			.returning({ objectKey: jobPhoto.objectKey, thumbKey: jobPhoto.thumbKey });
-		return { removed: old ? [old.objectKey, old.thumbKey] : [] };
+		if (stored) await tx.insert(jobPhoto).values({ jobId, kind, ...stored });
+		return { displaced: old ? [old.objectKey, old.thumbKey] : [] };
 	});
 }
 

@@ -1,6 +1,6 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { photoKindSchema, type PhotoKind } from '$lib/forms/job';
-import { listJobPhotos, removeJobPhoto, saveJobPhoto } from '$lib/server/jobs';
+import { listJobPhotos, setJobPhoto } from '$lib/server/jobs';
 import { loadEditableJob } from '$lib/server/owner-jobs';
 import { deleteObject } from '$lib/server/storage';
 import { discardUpload, storeUpload } from '$lib/server/uploads';
@@ -24,7 +24,7 @@ export const actions = {
 		const { objectKey, thumbKey, width, height, bytes } = outcome.stored;
 		let result;
 		try {
-			result = await saveJobPhoto(job.id, owner.id, kind.data as PhotoKind, {
+			result = await setJobPhoto(job.id, owner.id, kind.data as PhotoKind, {
 				objectKey,
 				thumbKey: thumbKey!,
 				width: width!,
@@ -40,17 +40,17 @@ export const actions = {
 			if (result === 'not-found') error(404, 'There is no such job among yours.');
 			return refuse(kind.data, 'This job can no longer change.', 409);
 		}
-		await Promise.allSettled(result.replaced.map((key) => deleteObject(key)));
+		await Promise.allSettled(result.displaced.map((key) => deleteObject(key)));
 		return { kind: kind.data, saved: true };
 	},
 	remove: async ({ request, params }) => {
 		const { owner, job } = await loadEditableJob(params.id);
 		const kind = photoKindSchema.safeParse((await request.formData()).get('kind'));
 		if (!kind.success) return refuse('', 'Say which photo to remove.');
-		const result = await removeJobPhoto(job.id, owner.id, kind.data);
+		const result = await setJobPhoto(job.id, owner.id, kind.data);
 		if (result === 'not-found') error(404, 'There is no such job among yours.');
 		if (result === 'locked') return refuse(kind.data, 'This job can no longer change.', 409);
-		await Promise.allSettled(result.removed.map((key) => deleteObject(key)));
+		await Promise.allSettled(result.displaced.map((key) => deleteObject(key)));
 		return { kind: kind.data, removed: true };
 	},
 	next: async ({ params }) => {
