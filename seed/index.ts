@@ -7,6 +7,7 @@ import { drizzle } from 'drizzle-orm/node-postgres';
 import pg from 'pg';
 import { installerHours, installerProfile, user, vettingEvent } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/password';
+import { seedDemoJobs } from './jobs';
 import {
 	DEMO_ADMIN,
 	DEMO_INSTALLERS,
@@ -79,6 +80,7 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 				await tx.insert(vettingEvent).values(demoTrail(id, adminId, i.status, submittedAt));
 			}
 		});
+		await seedDemoJobs(db, verified);
 		return true;
 	} finally {
 		await pool.end();

@@ -2,6 +2,11 @@
  * E-mail templates. Each renders a subject, an HTML part and a plain-text part from the same words,
  * so a message reads the same in any mail client.
  */
+import {
+	isMarketplaceEmail,
+	renderMarketplaceEmail,
+	type MarketplaceEmail
+} from './marketplace-mail';
 
 export interface RenderedEmail {
 	subject: string;
@@ -31,7 +36,8 @@ export type EmailTemplate =
 			data: VettingMailData & { expiresOn: string; daysBefore: number };
 	  }
 	| { template: 'insurance-paused'; data: VettingMailData & { reason: string } }
-	| { template: 'insurance-approved'; data: VettingMailData };
+	| { template: 'insurance-approved'; data: VettingMailData }
+	| MarketplaceEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -84,6 +90,7 @@ function renderBlock(subject: string, block: Block): RenderedEmail {
 
 /** Renders one of Tapline's e-mails. */
 export function renderEmail(message: EmailTemplate): RenderedEmail {
+	if (isMarketplaceEmail(message)) return renderMarketplaceEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {

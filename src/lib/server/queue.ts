@@ -6,6 +6,7 @@
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 import { deliverEmail, listStrandedEmails } from './mail';
+import { registerMarketplaceWork } from './marketplace-work';
 import { runInsuranceExpiryCheck } from './vetting';
 
 export const EMAIL_QUEUE = 'email-deliver';
@@ -66,6 +67,7 @@ export function startQueue(): Promise<PgBoss> {
 			const result = await runInsuranceExpiryCheck();
 			await Promise.all(result.emailIds.map((id) => instance.send(EMAIL_QUEUE, { id })));
 		});
+		await registerMarketplaceWork(instance);
 		boss = instance;
 		return instance;
 	})();

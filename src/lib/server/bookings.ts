@@ -1,0 +1,300 @@
+/**
+ * Booking one quote. In one transaction: lock the job row, check it still collects quotes and
+ * the quote is live, insert a provisional booking holding the slot, mark the job booked, accept
+ * the quote, decline the others and queue a polite e-mail to each. Two tabs booking at once are
+ * served one after the other by the row lock (the second finds the job booked); two jobs taking
+ * the same installer's time meet the exclusion constraint of migration 0002, and the loser gets a
+ * 409 with a clear message. Holds that run out lapse, and the slot and the job open again.
+ */
+import { and, eq, inArray, lte, ne, type SQL } from 'drizzle-orm';
+import { z } from 'zod';
+import { env } from '$env/dynamic/private';
+import { formatInZone } from '$lib/time';
+import { db, type Tx } from './db';
+import { booking, installerProfile, job, quote, user } from './db/schema';
+import { queueEmail } from './mail';
+import { formatSlot, refuse, type MarketProblem } from './quotes';
+
+/** How long a provisional booking holds the installer's slot while the owner pays (Tapline's choice). */
+export const HOLD_MINUTES = 30;
+
+const uuid = z.uuid();
+const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
+
+export type BookingOutcome = { ok: true; bookingId: string; emailIds: string[] } | MarketProblem;
+
+/** The PostgreSQL error code of a failed query, looking through Drizzle's wrapper. */
+function pgCode(err: unknown): string | undefined {
+	let current: unknown = err;
+	for (let depth = 0; current && depth < 5; depth++) {
+		const code = (current as { code?: unknown }).code;
+		if (typeof code === 'string' && /^[0-9A-Z]{5}$/.test(code)) return code;
+		current = (current as { cause?: unknown }).cause;
+	}
+	return undefined;
+}
+
+/**
+ * Books a quote at one of its slots for the job's owner; the booking waits for payment and holds
+ * the slot for {@link HOLD_MINUTES} minutes.
+ * @param slotStart the chosen slot's start, as the ISO string stored on the quote
+ */
+export async function bookQuote(
+	ownerId: string,
+	jobId: string,
+	quoteId: string,
+	slotStart: string,
+	now = new Date()
+): Promise<BookingOutcome> {
+	if (!uuid.safeParse(jobId).success || !uuid.safeParse(quoteId).success) {
+		return refuse(404, 'There is no such quote on your jobs.');
+	}
+	try {
+		return await db.transaction(async (tx) => {
+			const [locked] = await tx
+				.select()
+				.from(job)
+				.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
+				.for('update');
+			if (!locked) return refuse(404, 'There is no such quote on your jobs.');
+			// An expired hold on this very job must not keep it booked.
+			const lapsedIds = await lapseHolds(tx, eq(booking.jobId, jobId), now);
+			const status = lapsedIds.length > 0 ? 'collecting_quotes' : locked.status;
+			if (status === 'booked') {
+				return refuse(
+					409,
+					'This job is already booked (perhaps from another tab); see its booking.'
+				);
+			}
+			if (status !== 'collecting_quotes') {
+				return refuse(409, 'This job is not taking bookings any more.');
+			}
+			const [chosen] = await tx
+				.select({
+					quote,
+					businessName: installerProfile.businessName,
+					timeZone: installerProfile.timeZone,
+					email: user.email
+				})
+				.from(quote)
+				.innerJoin(installerProfile, eq(installerProfile.userId, quote.installerId))
+				.innerJoin(user, eq(user.id, quote.installerId))
+				.where(and(eq(quote.id, quoteId), eq(quote.jobId, jobId)))
+				.for('update', { of: quote });
+			if (!chosen) return refuse(404, 'There is no such quote on your jobs.');
+			if (chosen.quote.status !== 'live') {
+				return refuse(
+					409,
+					'This quote is no longer open: the installer withdrew it or it ran out.'
+				);
+			}
+			if (chosen.quote.expiresAt && chosen.quote.expiresAt.getTime() <= now.getTime()) {
+				return refuse(409, 'This quote has expired; ask the installer for a fresh one.');
+			}
+			const slot = chosen.quote.slots.find((s) => s.start === slotStart);
+			if (!slot) return refuse(400, 'Choose one of the times the installer offered.');
+			if (new Date(slot.start).getTime() <= now.getTime()) {
+				return refuse(409, 'That time has passed; choose another.');
+			}
+			// Free the installer's own expired holds, so a lapsed hold never blocks a real booking.
+			lapsedIds.push(
+				...(await lapseHolds(tx, eq(booking.installerId, chosen.quote.installerId), now))
+			);
+			const holdExpiresAt = new Date(now.getTime() + HOLD_MINUTES * 60_000);
+			const [made] = await tx
+				.insert(booking)
+				.values({
+					jobId,
+					quoteId,
+					installerId: chosen.quote.installerId,
+					ownerId,
+					slotStart: new Date(slot.start),
+					slotEnd: new Date(slot.end),
+					holdExpiresAt,
+					totalCents: chosen.quote.totalCents,
+					createdAt: now
+				})
+				.returning({ id: booking.id });
+			if (!made) throw new Error('Booking insert returned no row');
+			await tx.update(job).set({ status: 'booked', updatedAt: now }).where(eq(job.id, jobId));
+			await tx
+				.update(quote)
+				.set({ status: 'accepted', updatedAt: now })
+				.where(eq(quote.id, quoteId));
+			const declined = await tx
+				.update(quote)
+				.set({ status: 'declined', updatedAt: now })
+				.where(and(eq(quote.jobId, jobId), ne(quote.id, quoteId), eq(quote.status, 'live')))
+				.returning({ installerId: quote.installerId });
+			const title = locked.title ?? 'dash camera job';
+			const emailIds = [...lapsedIds];
+			if (declined.length > 0) {
+				const people = await tx
+					.select({ email: user.email, businessName: installerProfile.businessName })
+					.from(installerProfile)
+					.innerJoin(user, eq(user.id, installerProfile.userId))
+					.where(
+						inArray(
+							installerProfile.userId,
+							declined.map((d) => d.installerId)
+						)
+					);
+				for (const person of people) {
+					emailIds.push(
+						await queueEmail(tx, person.email, {
+							template: 'quote-declined',
+							data: { businessName: person.businessName, title, url: `${origin()}/installer/jobs` }
+						})
+					);
+				}
+			}
+			emailIds.push(
+				await queueEmail(tx, chosen.email, {
+					template: 'booking-provisional',
+					data: {
+						businessName: chosen.businessName,
+						title,
+						slot: formatSlot(slot, chosen.timeZone),
+						holdUntil: formatInZone(holdExpiresAt, chosen.timeZone, 'h:mm a, EEE d MMM'),
+						url: `${origin()}/installer/jobs/${jobId}`
+					}
+				})
+			);
+			return { ok: true, bookingId: made.id, emailIds };
+		});
+	} catch (err) {
+		const code = pgCode(err);
+		if (code === '23P01') {
+			return refuse(
+				409,
+				'The installer was booked for an overlapping time on another job a moment ago. Choose another time.'
+			);
+		}
+		if (code === '23505') {
+			return refuse(
+				409,
+				'This job was booked a moment ago, perhaps from another tab; see its booking.'
+			);
+		}
+		throw err;
+	}
+}
+
+/**
+ * Lapses provisional bookings whose hold ran out (within `scope`): the booking becomes
+ * 'lapsed' (which frees the slot: the exclusion constraint only counts live bookings), the job
+ * collects quotes again and the accepted quote is live again. Quotes declined at booking stay
+ * declined; those installers may send a fresh revision.
+ * @returns ids of the e-mails queued (one to each installer whose slot was freed)
+ */
+export async function lapseHolds(tx: Tx, scope: SQL | undefined, now: Date): Promise<string[]> {
+	const lapsed = await tx
+		.update(booking)
+		.set({ status: 'lapsed' })
+		.where(and(eq(booking.status, 'awaiting_payment'), lte(booking.holdExpiresAt, now), scope))
+		.returning({
+			jobId: booking.jobId,
+			quoteId: booking.quoteId,
+			installerId: booking.installerId,
+			slotStart: booking.slotStart,
+			slotEnd: booking.slotEnd
+		});
+	const emailIds: string[] = [];
+	for (const b of lapsed) {
+		const [j] = await tx
+			.update(job)
+			.set({ status: 'collecting_quotes', updatedAt: now })
+			.where(and(eq(job.id, b.jobId), eq(job.status, 'booked')))
+			.returning({ title: job.title });
+		await tx
+			.update(quote)
+			.set({ status: 'live', updatedAt: now })
+			.where(and(eq(quote.id, b.quoteId), eq(quote.status, 'accepted')));
+		const [person] = await tx
+			.select({
+				email: user.email,
+				businessName: installerProfile.businessName,
+				timeZone: installerProfile.timeZone
+			})
+			.from(installerProfile)
+			.innerJoin(user, eq(user.id, installerProfile.userId))
+			.where(eq(installerProfile.userId, b.installerId));
+		if (person) {
+			emailIds.push(
+				await queueEmail(tx, person.email, {
+					template: 'booking-lapsed',
+					data: {
+						businessName: person.businessName,
+						title: j?.title ?? 'dash camera job',
+						slot: formatSlot(
+							{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
+							person.timeZone
+						)
+					}
+				})
+			);
+		}
+	}
+	return emailIds;
+}
+
+/**
+ * Lapses every expired hold, or only one job's (the on-read check of the owner's pages).
+ * @returns ids of the e-mails to deliver
+ */
+export function lapseExpiredHolds(options: { jobId?: string } = {}, now = new Date()) {
+	if (options.jobId !== undefined && !uuid.safeParse(options.jobId).success) {
+		return Promise.resolve([]);
+	}
+	return db.transaction((tx) =>
+		lapseHolds(tx, options.jobId ? eq(booking.jobId, options.jobId) : undefined, now)
+	);
+}
+
+/**
+ * Confirms a provisional booking once its payment has been taken into held funds. The payment
+ * step (a later issue) calls this; nothing else does. Refuses a booking whose hold ran out.
+ */
+export async function confirmBooking(bookingId: string, now = new Date()) {
+	if (!uuid.safeParse(bookingId).success) return refuse(404, 'There is no such booking.');
+	return db.transaction(async (tx) => {
+		const [row] = await tx.select().from(booking).where(eq(booking.id, bookingId)).for('update');
+		if (!row) return refuse(404, 'There is no such booking.');
+		if (row.status !== 'awaiting_payment' || row.holdExpiresAt.getTime() <= now.getTime()) {
+			return refuse(409, 'This booking is no longer waiting for payment.');
+		}
+		await tx.update(booking).set({ status: 'confirmed' }).where(eq(booking.id, bookingId));
+		return { ok: true as const };
+	});
+}
+
+/** A booking of the owner's with its job, quote and installer; null when it is not theirs. */
+export async function getOwnerBooking(bookingId: string, ownerId: string) {
+	if (!uuid.safeParse(bookingId).success) return null;
+	const [row] = await db
+		.select({
+			booking,
+			title: job.title,
+			jobId: job.id,
+			businessName: installerProfile.businessName,
+			suburb: installerProfile.suburb,
+			timeZone: job.timeZone
+		})
+		.from(booking)
+		.innerJoin(job, eq(job.id, booking.jobId))
+		.innerJoin(installerProfile, eq(installerProfile.userId, booking.installerId))
+		.where(and(eq(booking.id, bookingId), eq(booking.ownerId, ownerId)));
+	return row ?? null;
+}
+
+/** The live booking of a job, if any. */
+export async function getLiveBookingForJob(jobId: string) {
+	if (!uuid.safeParse(jobId).success) return null;
+	const [row] = await db
+		.select({ id: booking.id, installerId: booking.installerId, status: booking.status })
+		.from(booking)
+		.where(
+			and(eq(booking.jobId, jobId), inArray(booking.status, ['awaiting_payment', 'confirmed']))
+		);
+	return row ?? null;
+}

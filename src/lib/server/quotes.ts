@@ -1,0 +1,558 @@
+/**
+ * Installers' quotes and the question-and-answer threads around them. A quote is written in one
+ * transaction that locks the installer's profile (so a suspension or a second tab waits its turn)
+ * and shares the job's row lock (so a booking in progress finishes first and the quote then sees
+ * it); every revision is kept in quote_revision. Contact details in messages and quote notes are
+ * masked until the job is booked with that installer.
+ */
+import { and, asc, eq, gt, inArray, isNull, lt, or } from 'drizzle-orm';
+import { z } from 'zod';
+import { env } from '$env/dynamic/private';
+import { maskContactDetails, type MaskedKind } from '$lib/masking';
+import {
+	approximateLocation,
+	matchProblem,
+	priceQuote,
+	quoteProblems,
+	travelFeeCents
+} from '$lib/matching';
+import { formatAud } from '$lib/money';
+import type { Interval } from '$lib/schedule';
+import { formatInZone } from '$lib/time';
+import { db, type Tx } from './db';
+import {
+	booking,
+	installerBlockedDate,
+	installerHours,
+	installerProfile,
+	job,
+	jobMessage,
+	quote,
+	quoteRevision,
+	user,
+	type QuoteSlot
+} from './db/schema';
+import { queueEmail } from './mail';
+import { jobReach } from './matching';
+
+const uuid = z.uuid();
+
+/** A refusal, with the HTTP status a page should answer with. */
+export type MarketProblem = {
+	ok: false;
+	status: 400 | 403 | 404 | 409;
+	message: string;
+	problems?: string[];
+};
+
+export const refuse = (
+	status: MarketProblem['status'],
+	message: string,
+	problems?: string[]
+): MarketProblem => ({ ok: false, status, message, ...(problems ? { problems } : {}) });
+
+const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
+
+/** What an installer sends, in GST-inclusive cents and UTC instants. */
+export interface QuoteInput {
+	labourCents: number;
+	/** Unit price of each part on the job's scope sheet (camera excluded), in scope order. */
+	partUnitCents: number[];
+	cameraSupplied: boolean;
+	/** The camera's price when the installer supplies it. */
+	cameraCents: number;
+	warrantyMonths: number;
+	slots: Interval[];
+	message: string | null;
+	expiresAt: Date;
+}
+
+export type QuoteOutcome =
+	| { ok: true; quoteId: string; jobId: string; revision: number; masked: MaskedKind[] }
+	| MarketProblem;
+
+const hhmm = (minute: number) =>
+	`${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(minute % 60).padStart(2, '0')}`;
+
+/** The installer's weekly hours, days off and live bookings, for checking slots. */
+export async function loadDiary(tx: Tx | typeof db, installerId: string, now: Date) {
+	const [hours, blocked, booked] = await Promise.all([
+		tx.select().from(installerHours).where(eq(installerHours.installerId, installerId)),
+		tx
+			.select({ day: installerBlockedDate.day })
+			.from(installerBlockedDate)
+			.where(eq(installerBlockedDate.installerId, installerId)),
+		tx
+			.select({ start: booking.slotStart, end: booking.slotEnd })
+			.from(booking)
+			.where(
+				and(
+					eq(booking.installerId, installerId),
+					or(
+						eq(booking.status, 'confirmed'),
+						and(eq(booking.status, 'awaiting_payment'), gt(booking.holdExpiresAt, now))
+					)
+				)
+			)
+	]);
+	return {
+		hours: hours.map((h) => ({
+			weekday: h.weekday as 0 | 1 | 2 | 3 | 4 | 5 | 6,
+			start: hhmm(h.startMinute),
+			end: hhmm(h.endMinute)
+		})),
+		blocked: blocked.map((b) => b.day),
+		bookings: booked
+	};
+}
+
+/**
+ * Sends or revises the installer's quote on a job. Refuses, with a message for the installer, a
+ * job that is withdrawn, booked or not offered to them, an installer who is not vetted or is
+ * paused, a total of $0 or over $20,000, slots outside their hours or clashing with bookings, and
+ * an expiry in the past.
+ */
+export async function submitQuote(
+	installerId: string,
+	jobId: string,
+	input: QuoteInput,
+	now = new Date()
+): Promise<QuoteOutcome> {
+	if (!uuid.safeParse(jobId).success) return refuse(404, 'There is no such job.');
+	return db.transaction(async (tx) => {
+		const [profile] = await tx
+			.select()
+			.from(installerProfile)
+			.where(eq(installerProfile.userId, installerId))
+			.for('update');
+		if (!profile || profile.vettingStatus !== 'approved') {
+			return refuse(403, 'Only vetted installers can quote. Your application is not approved yet.');
+		}
+		if (profile.pausedReason) {
+			return refuse(403, `Your quoting is paused: ${profile.pausedReason}`);
+		}
+		const [row] = await tx.select().from(job).where(eq(job.id, jobId)).for('share');
+		if (!row || row.status === 'drafting') return refuse(404, 'There is no such job.');
+		if (row.status === 'withdrawn') {
+			return refuse(409, 'The owner withdrew this job, so it takes no more quotes.');
+		}
+		if (row.status !== 'collecting_quotes') {
+			return refuse(409, 'This job is booked already, so it takes no more quotes.');
+		}
+		const reach = jobReach(row);
+		if (!reach || !row.scope) return refuse(404, 'There is no such job.');
+		const base = { lat: profile.latitude, lng: profile.longitude };
+		const problem = matchProblem(reach, {
+			base,
+			serviceRadiusKm: profile.serviceRadiusKm,
+			skills: profile.skills,
+			offersMobile: profile.offersMobile,
+			offersWorkshop: profile.offersWorkshop
+		});
+		if (problem) return refuse(403, problem.message);
+
+		const [existing] = await tx
+			.select()
+			.from(quote)
+			.where(and(eq(quote.jobId, jobId), eq(quote.installerId, installerId)))
+			.for('update');
+		if (existing?.status === 'accepted') {
+			return refuse(409, 'The owner booked this quote; it can no longer change.');
+		}
+
+		const scopeParts = row.scope.parts.filter((p) => p.code !== 'camera');
+		if (input.partUnitCents.length !== scopeParts.length) {
+			return refuse(400, 'Price every part on the scope sheet (enter 0 for any you include free).');
+		}
+		const distance = approximateLocation(reach.location, base).distanceKm;
+		const travel =
+			row.locationMode === 'mobile'
+				? travelFeeCents(distance, profile.freeRadiusKm, profile.travelFeeCentsPerKm)
+				: 0;
+		let priced;
+		try {
+			priced = priceQuote({
+				labour: { label: 'Labour', cents: input.labourCents },
+				parts: scopeParts.map((p, i) => ({
+					label: p.label,
+					quantity: p.quantity,
+					unitCents: input.partUnitCents[i] ?? 0
+				})),
+				camera: input.cameraSupplied
+					? { label: 'Camera supplied', cents: input.cameraCents }
+					: null,
+				travelCents: travel,
+				travelLabel: `Travel: ${distance.toFixed(1)} km, ${String(profile.freeRadiusKm)} km free, ${formatAud(profile.travelFeeCentsPerKm)}/km after`
+			});
+		} catch {
+			return refuse(400, 'Enter every amount as dollars and cents of $0 or more.');
+		}
+		const diary = await loadDiary(tx, installerId, now);
+		const problems = quoteProblems({
+			totalCents: priced.totalCents,
+			slots: input.slots,
+			hours: diary.hours,
+			blocked: diary.blocked,
+			bookings: diary.bookings,
+			timeZone: profile.timeZone,
+			expiresAt: input.expiresAt,
+			now
+		});
+		if (
+			!Number.isInteger(input.warrantyMonths) ||
+			input.warrantyMonths < 0 ||
+			input.warrantyMonths > 120
+		) {
+			problems.push('Warranty on workmanship is a whole number of months, 0 to 120.');
+		}
+		if (problems.length > 0) return refuse(400, problems[0] ?? 'Check the quote.', problems);
+
+		const masked = input.message ? maskContactDetails(input.message) : null;
+		const slots: QuoteSlot[] = [...input.slots]
+			.sort((a, b) => a.start.getTime() - b.start.getTime())
+			.map((s) => ({ start: s.start.toISOString(), end: s.end.toISOString() }));
+		const values = {
+			status: 'live' as const,
+			lines: priced.lines,
+			labourCents: priced.labourCents,
+			partsCents: priced.partsCents,
+			travelCents: priced.travelCents,
+			totalCents: priced.totalCents,
+			gstCents: priced.gstCents,
+			warrantyMonths: input.warrantyMonths,
+			cameraSupplied: input.cameraSupplied,
+			slots,
+			message: masked?.text ?? null,
+			distanceKm: distance,
+			expiresAt: input.expiresAt,
+			updatedAt: now
+		};
+		const revision = existing ? existing.revision + 1 : 1;
+		const [saved] = existing
+			? await tx
+					.update(quote)
+					.set({ ...values, revision })
+					.where(eq(quote.id, existing.id))
+					.returning({ id: quote.id })
+			: await tx
+					.insert(quote)
+					.values({ ...values, jobId, installerId, revision, createdAt: now })
+					.returning({ id: quote.id });
+		if (!saved) throw new Error('Quote write returned no row');
+		await tx.insert(quoteRevision).values({
+			quoteId: saved.id,
+			revision,
+			snapshot: {
+				...values,
+				expiresAt: input.expiresAt.toISOString(),
+				updatedAt: now.toISOString()
+			},
+			createdAt: now
+		});
+		return { ok: true, quoteId: saved.id, jobId, revision, masked: masked?.masked ?? [] };
+	});
+}
+
+/** Withdraws the installer's live quote on an open job. */
+export async function withdrawQuote(installerId: string, jobId: string) {
+	if (!uuid.safeParse(jobId).success) return refuse(404, 'There is no such job.');
+	return db.transaction(async (tx) => {
+		await tx.select({ id: job.id }).from(job).where(eq(job.id, jobId)).for('share');
+		const [row] = await tx
+			.update(quote)
+			.set({ status: 'withdrawn', updatedAt: new Date() })
+			.where(
+				and(eq(quote.jobId, jobId), eq(quote.installerId, installerId), eq(quote.status, 'live'))
+			)
+			.returning({ id: quote.id });
+		return row
+			? ({ ok: true } as const)
+			: refuse(409, 'There is no live quote of yours to withdraw.');
+	});
+}
+
+/** Every revision of a quote, newest first. */
+export function listQuoteRevisions(quoteId: string) {
+	return db
+		.select()
+		.from(quoteRevision)
+		.where(eq(quoteRevision.quoteId, quoteId))
+		.orderBy(asc(quoteRevision.revision));
+}
+
+/** The quotes on an owner's job with what the comparison shows; null when it is not theirs. */
+export async function listQuotesForOwner(jobId: string, ownerId: string) {
+	if (!uuid.safeParse(jobId).success) return null;
+	const [owned] = await db
+		.select({ id: job.id })
+		.from(job)
+		.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)));
+	if (!owned) return null;
+	const rows = await db
+		.select({
+			quote,
+			businessName: installerProfile.businessName,
+			suburb: installerProfile.suburb,
+			timeZone: installerProfile.timeZone
+		})
+		.from(quote)
+		.innerJoin(installerProfile, eq(installerProfile.userId, quote.installerId))
+		.where(eq(quote.jobId, jobId))
+		.orderBy(asc(quote.createdAt));
+	const installerIds = rows.map((r) => r.quote.installerId);
+	const fits = installerIds.length
+		? await db
+				.select({ installerId: booking.installerId })
+				.from(booking)
+				.where(and(inArray(booking.installerId, installerIds), eq(booking.status, 'confirmed')))
+		: [];
+	return rows.map((r) => ({
+		...r.quote,
+		businessName: r.businessName,
+		suburb: r.suburb,
+		installerTimeZone: r.timeZone,
+		// Confirmed (paid) bookings: the honest count of fits Tapline has seen them take on.
+		fitsCompleted: fits.filter((f) => f.installerId === r.quote.installerId).length,
+		// No reviews exist yet; the ranking uses its stated prior for everyone.
+		ratingSum: 0,
+		ratingCount: 0
+	}));
+}
+
+/** Who may talk in a thread, and whether contact details are still masked in it. */
+async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: string) {
+	const [row] = await tx
+		.select({
+			ownerId: job.ownerId,
+			ownerEmail: user.email,
+			title: job.title,
+			status: job.status,
+			latitude: job.latitude,
+			longitude: job.longitude,
+			locationMode: job.locationMode,
+			bodyStyle: job.bodyStyle,
+			cameras: job.cameras,
+			power: job.power
+		})
+		.from(job)
+		.innerJoin(user, eq(user.id, job.ownerId))
+		.where(eq(job.id, jobId));
+	if (!row) return null;
+	const [profile] = await tx
+		.select({
+			businessName: installerProfile.businessName,
+			email: user.email,
+			profile: installerProfile
+		})
+		.from(installerProfile)
+		.innerJoin(user, eq(user.id, installerProfile.userId))
+		.where(eq(installerProfile.userId, installerId));
+	if (!profile) return null;
+	const [hasQuote] = await tx
+		.select({ id: quote.id })
+		.from(quote)
+		.where(and(eq(quote.jobId, jobId), eq(quote.installerId, installerId)));
+	const [bookedWith] = await tx
+		.select({ id: booking.id })
+		.from(booking)
+		.where(
+			and(
+				eq(booking.jobId, jobId),
+				eq(booking.installerId, installerId),
+				inArray(booking.status, ['awaiting_payment', 'confirmed'])
+			)
+		);
+	const reach = jobReach(row);
+	const p = profile.profile;
+	const offered =
+		row.status === 'collecting_quotes' &&
+		reach !== null &&
+		p.vettingStatus === 'approved' &&
+		p.pausedReason === null &&
+		matchProblem(reach, {
+			base: { lat: p.latitude, lng: p.longitude },
+			serviceRadiusKm: p.serviceRadiusKm,
+			skills: p.skills,
+			offersMobile: p.offersMobile,
+			offersWorkshop: p.offersWorkshop
+		}) === null;
+	return {
+		...row,
+		businessName: profile.businessName,
+		installerEmail: profile.email,
+		installerMayWrite: offered || Boolean(hasQuote) || Boolean(bookedWith),
+		hasQuote: Boolean(hasQuote),
+		booked: Boolean(bookedWith)
+	};
+}
+
+export type MessageOutcome = { ok: true; masked: MaskedKind[]; emailIds: string[] } | MarketProblem;
+
+/**
+ * Adds a message to the thread between a job's owner and one installer, masking phone numbers,
+ * e-mail addresses and links (see CONTACT_PATTERNS) unless the job is booked with that installer,
+ * and e-mails the other side.
+ * @param author who writes: the job's owner or the installer of the thread
+ */
+export async function postJobMessage(
+	jobId: string,
+	installerId: string,
+	author: { id: string; role: 'owner' | 'installer' | 'admin' },
+	body: string
+): Promise<MessageOutcome> {
+	if (!uuid.safeParse(jobId).success) return refuse(404, 'There is no such job.');
+	const text = body.trim();
+	if (text.length === 0 || text.length > 2000) {
+		return refuse(400, 'Write a message of 1 to 2,000 characters.');
+	}
+	return db.transaction(async (tx) => {
+		const access = await threadAccess(tx, jobId, installerId);
+		if (!access) return refuse(404, 'There is no such job.');
+		const isOwner = author.role === 'owner' && author.id === access.ownerId;
+		const isInstaller = author.role === 'installer' && author.id === installerId;
+		if (!isOwner && !isInstaller) return refuse(404, 'There is no such job.');
+		if (isInstaller && !access.installerMayWrite) {
+			return refuse(403, 'This job is no longer open to you.');
+		}
+		if (isOwner && !access.hasQuote) {
+			const [asked] = await tx
+				.select({ id: jobMessage.id })
+				.from(jobMessage)
+				.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
+				.limit(1);
+			if (!asked) return refuse(404, 'This installer has not quoted or asked anything.');
+		}
+		const masked = access.booked ? { text, masked: [] as MaskedKind[] } : maskContactDetails(text);
+		await tx.insert(jobMessage).values({
+			jobId,
+			installerId,
+			authorId: author.id,
+			body: masked.text,
+			masked: masked.masked
+		});
+		const title = access.title ?? 'your dash camera job';
+		const emailId = isOwner
+			? await queueEmail(tx, access.installerEmail, {
+					template: 'job-message',
+					data: {
+						heading: `The owner of the ${title} replied`,
+						body: masked.text,
+						url: `${origin()}/installer/jobs/${jobId}#questions`
+					}
+				})
+			: await queueEmail(tx, access.ownerEmail, {
+					template: 'job-message',
+					data: {
+						heading: `${access.businessName} wrote about your ${title}`,
+						body: masked.text,
+						url: `${origin()}/owner/jobs/${jobId}/quotes/${installerId}`
+					}
+				});
+		return { ok: true, masked: masked.masked, emailIds: [emailId] };
+	});
+}
+
+/** The thread between a job's owner and one installer, oldest first. */
+export function listJobMessages(jobId: string, installerId: string) {
+	return db
+		.select({
+			id: jobMessage.id,
+			authorId: jobMessage.authorId,
+			body: jobMessage.body,
+			masked: jobMessage.masked,
+			createdAt: jobMessage.createdAt
+		})
+		.from(jobMessage)
+		.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
+		.orderBy(asc(jobMessage.createdAt));
+}
+
+/** Installers who asked about an owner's job without quoting (their threads have no quote row). */
+export async function listAskingInstallers(jobId: string) {
+	const rows = await db
+		.selectDistinct({
+			installerId: jobMessage.installerId,
+			businessName: installerProfile.businessName
+		})
+		.from(jobMessage)
+		.innerJoin(installerProfile, eq(installerProfile.userId, jobMessage.installerId))
+		.where(eq(jobMessage.jobId, jobId));
+	const quoted = await db
+		.select({ installerId: quote.installerId })
+		.from(quote)
+		.where(eq(quote.jobId, jobId));
+	return rows.filter((r) => !quoted.some((q) => q.installerId === r.installerId));
+}
+
+/**
+ * E-mails an owner about quotes that arrived since the last such e-mail, in one message however
+ * many came in; marks the job so the next batch starts after them. Idempotent: a second run with
+ * nothing new sends nothing.
+ * @returns the outbox ids to deliver
+ */
+export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Promise<string[]> {
+	return db.transaction(async (tx) => {
+		const [row] = await tx
+			.select({ job, ownerEmail: user.email, ownerName: user.displayName })
+			.from(job)
+			.innerJoin(user, eq(user.id, job.ownerId))
+			.where(eq(job.id, jobId))
+			.for('update', { of: job });
+		if (!row || row.job.status !== 'collecting_quotes') return [];
+		const since = row.job.quotesNotifiedAt ?? new Date(0);
+		const fresh = await tx
+			.select({
+				totalCents: quote.totalCents,
+				revision: quote.revision,
+				businessName: installerProfile.businessName
+			})
+			.from(quote)
+			.innerJoin(installerProfile, eq(installerProfile.userId, quote.installerId))
+			.where(and(eq(quote.jobId, jobId), eq(quote.status, 'live'), gt(quote.updatedAt, since)))
+			.orderBy(asc(quote.updatedAt));
+		if (fresh.length === 0) return [];
+		const id = await queueEmail(tx, row.ownerEmail, {
+			template: 'quotes-received',
+			data: {
+				displayName: row.ownerName,
+				title: row.job.title ?? 'your dash camera job',
+				quotes: fresh.map((q) => ({
+					businessName: q.businessName,
+					total: formatAud(q.totalCents),
+					revised: q.revision > 1
+				})),
+				url: `${origin()}/owner/jobs/${jobId}/quotes`
+			}
+		});
+		await tx.update(job).set({ quotesNotifiedAt: now }).where(eq(job.id, jobId));
+		return [id];
+	});
+}
+
+/**
+ * Open jobs with live quotes that reached no owner e-mail yet and are older than `olderThan`
+ * (what a lost enqueue left behind; younger ones still have a batch pending).
+ */
+export async function listJobsWithUnsentQuotes(olderThan: Date) {
+	const rows = await db
+		.selectDistinct({ jobId: job.id })
+		.from(job)
+		.innerJoin(quote, eq(quote.jobId, job.id))
+		.where(
+			and(
+				eq(job.status, 'collecting_quotes'),
+				eq(quote.status, 'live'),
+				lt(quote.updatedAt, olderThan),
+				or(isNull(job.quotesNotifiedAt), gt(quote.updatedAt, job.quotesNotifiedAt))
+			)
+		)
+		.limit(200);
+	return rows.map((r) => r.jobId);
+}
+
+/** A slot as the installer's local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. */
+export function formatSlot(slot: QuoteSlot, timeZone: string): string {
+	const start = new Date(slot.start);
+	const end = new Date(slot.end);
+	return `${formatInZone(start, timeZone, 'EEE d MMM, h:mm a')} – ${formatInZone(end, timeZone, 'h:mm a')}`;
+}

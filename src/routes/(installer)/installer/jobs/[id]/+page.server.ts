@@ -1,0 +1,132 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { requireRole } from '$lib/server/guards';
+import { listJobPhotos } from '$lib/server/jobs';
+import { requestQuoteDigest } from '$lib/server/marketplace-work';
+import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
+import { requestEmailDelivery } from '$lib/server/queue';
+import {
+	formatSlot,
+	listJobMessages,
+	listQuoteRevisions,
+	postJobMessage,
+	submitQuote,
+	withdrawQuote
+} from '$lib/server/quotes';
+import { askSchema, quoteFormSchema, toQuoteInput } from './quote-form';
+import { quoteFormDefaults } from './quote-defaults';
+import type { Actions, PageServerLoad } from './$types';
+
+const NOT_FOUND = 'There is no such job on your board.';
+
+async function context() {
+	const installer = requireRole('installer');
+	const ctx = await getInstallerContext(installer.id);
+	if (!ctx) error(404, NOT_FOUND);
+	return { installer, ctx };
+}
+
+export const load: PageServerLoad = async ({ params, url }) => {
+	const { installer, ctx } = await context();
+	const found = await getJobForInstaller(params.id, ctx);
+	if (!found) error(404, NOT_FOUND);
+	const [photos, messages, revisions, defaults] = await Promise.all([
+		listJobPhotos(found.id),
+		listJobMessages(found.id, installer.id),
+		found.myQuote ? listQuoteRevisions(found.myQuote.id) : Promise.resolve([]),
+		quoteFormDefaults(found, ctx)
+	]);
+	const [form, askForm] = await Promise.all([
+		superValidate(defaults, zod4(quoteFormSchema), { errors: false }),
+		superValidate(zod4(askSchema))
+	]);
+	const q = found.myQuote;
+	return {
+		job: { ...found, myQuote: null, request: null },
+		myQuote: q && {
+			status: q.status,
+			revision: q.revision,
+			lines: q.lines,
+			totalCents: q.totalCents,
+			gstCents: q.gstCents,
+			warrantyMonths: q.warrantyMonths,
+			cameraSupplied: q.cameraSupplied,
+			message: q.message,
+			slots: q.slots.map((s) => formatSlot(s, ctx.timeZone)),
+			expiresAt: q.expiresAt?.toISOString() ?? null
+		},
+		bookingSlot: found.booking
+			? formatSlot(
+					{
+						start: found.booking.slotStart.toISOString(),
+						end: found.booking.slotEnd.toISOString()
+					},
+					ctx.timeZone
+				)
+			: null,
+		revisions: revisions.map((r) => ({
+			revision: r.revision,
+			createdAt: r.createdAt.toISOString(),
+			totalCents: Number(r.snapshot.totalCents)
+		})),
+		photos,
+		messages: messages.map((m) => ({ ...m, mine: m.authorId === installer.id })),
+		mayQuote: found.status === 'collecting_quotes' && found.problem === null && ctx.canQuote,
+		form,
+		askForm,
+		timeZone: ctx.timeZone,
+		flash: {
+			quoted: url.searchParams.get('quoted'),
+			masked: url.searchParams.has('masked')
+		}
+	};
+};
+
+export const actions = {
+	quote: async ({ request, params }) => {
+		const { installer, ctx } = await context();
+		const form = await superValidate(request, zod4(quoteFormSchema));
+		if (!form.valid) return fail(400, { form });
+		let input;
+		try {
+			input = toQuoteInput(form.data, ctx.timeZone);
+		} catch {
+			return message(form, 'One of the dates is not a real calendar date.', { status: 400 });
+		}
+		const result = await submitQuote(installer.id, params.id, input);
+		if (!result.ok) {
+			if (result.status === 404) error(404, NOT_FOUND);
+			return message(form, (result.problems ?? [result.message]).join(' '), {
+				status: result.status
+			});
+		}
+		await requestQuoteDigest(result.jobId);
+		const masked = result.masked.length > 0 ? '&masked=1' : '';
+		redirect(303, `/installer/jobs/${params.id}?quoted=${String(result.revision)}${masked}`);
+	},
+	withdraw: async ({ params }) => {
+		const { installer } = await context();
+		const result = await withdrawQuote(installer.id, params.id);
+		if (!result.ok) return fail(result.status, { problem: result.message });
+		redirect(303, `/installer/jobs/${params.id}`);
+	},
+	ask: async ({ request, params }) => {
+		const { installer } = await context();
+		const askForm = await superValidate(request, zod4(askSchema));
+		if (!askForm.valid) return fail(400, { askForm });
+		const result = await postJobMessage(
+			params.id,
+			installer.id,
+			{ id: installer.id, role: 'installer' },
+			askForm.data.body
+		);
+		if (!result.ok) {
+			if (result.status === 404) error(404, NOT_FOUND);
+			return message(askForm, result.message, { status: result.status });
+		}
+		await requestEmailDelivery(result.emailIds);
+		const masked = result.masked.length > 0 ? '?masked=1' : '';
+		redirect(303, `/installer/jobs/${params.id}${masked}#questions`);
+	}
+} satisfies Actions;

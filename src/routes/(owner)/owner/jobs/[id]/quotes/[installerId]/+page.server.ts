@@ -1,0 +1,110 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { z } from 'zod';
+import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
+import { requireRole } from '$lib/server/guards';
+import { getOwnedJob } from '$lib/server/jobs';
+import { requestEmailDelivery } from '$lib/server/queue';
+import {
+	formatSlot,
+	listJobMessages,
+	listQuotesForOwner,
+	postJobMessage
+} from '$lib/server/quotes';
+import type { Actions, PageServerLoad } from './$types';
+
+const bookSchema = z.object({
+	quoteId: z.uuid(),
+	slot: z.string({ error: 'Choose a time' }).min(1, { error: 'Choose one of the times offered' })
+});
+const replySchema = z.object({
+	body: z
+		.string()
+		.trim()
+		.min(1, { error: 'Write your answer' })
+		.max(2000, { error: 'Keep it under 2,000 characters' })
+});
+const NOT_FOUND = 'There is no such quote on your jobs.';
+
+export const load: PageServerLoad = async ({ params, url }) => {
+	const owner = requireRole('owner');
+	await requestEmailDelivery(await lapseExpiredHolds({ jobId: params.id }));
+	const job = await getOwnedJob(params.id, owner.id);
+	if (!job) error(404, NOT_FOUND);
+	const [quotes, messages] = await Promise.all([
+		listQuotesForOwner(job.id, owner.id),
+		listJobMessages(job.id, params.installerId)
+	]);
+	const q = quotes?.find((x) => x.installerId === params.installerId) ?? null;
+	if (!q && messages.length === 0) error(404, NOT_FOUND);
+	const now = Date.now();
+	const [bookForm, replyForm] = await Promise.all([
+		superValidate({ quoteId: q?.id ?? '', slot: '' }, zod4(bookSchema), { errors: false }),
+		superValidate(zod4(replySchema))
+	]);
+	return {
+		job: { id: job.id, title: job.title ?? 'Your job', status: job.status, timeZone: job.timeZone },
+		quote: q && {
+			id: q.id,
+			businessName: q.businessName,
+			suburb: q.suburb,
+			status: q.status,
+			revision: q.revision,
+			lines: q.lines,
+			totalCents: q.totalCents,
+			gstCents: q.gstCents,
+			warrantyMonths: q.warrantyMonths,
+			cameraSupplied: q.cameraSupplied,
+			message: q.message,
+			distanceKm: q.distanceKm,
+			expiresAt: q.expiresAt?.toISOString() ?? null,
+			slots: q.slots.map((s) => ({
+				value: s.start,
+				label: formatSlot(s, job.timeZone),
+				past: Date.parse(s.start) <= now
+			}))
+		},
+		bookable:
+			job.status === 'collecting_quotes' &&
+			q?.status === 'live' &&
+			(!q.expiresAt || q.expiresAt.getTime() > now),
+		holdMinutes: HOLD_MINUTES,
+		messages: messages.map((m) => ({ ...m, mine: m.authorId === owner.id })),
+		bookForm,
+		replyForm,
+		replied: url.searchParams.has('replied')
+	};
+};
+
+export const actions = {
+	book: async ({ request, params }) => {
+		const owner = requireRole('owner');
+		const bookForm = await superValidate(request, zod4(bookSchema));
+		if (!bookForm.valid) return fail(400, { bookForm });
+		const result = await bookQuote(owner.id, params.id, bookForm.data.quoteId, bookForm.data.slot);
+		if (!result.ok) {
+			if (result.status === 404) error(404, NOT_FOUND);
+			return message(bookForm, result.message, { status: result.status });
+		}
+		await requestEmailDelivery(result.emailIds);
+		redirect(303, `/owner/bookings/${result.bookingId}`);
+	},
+	reply: async ({ request, params }) => {
+		const owner = requireRole('owner');
+		const replyForm = await superValidate(request, zod4(replySchema));
+		if (!replyForm.valid) return fail(400, { replyForm });
+		const result = await postJobMessage(
+			params.id,
+			params.installerId,
+			{ id: owner.id, role: 'owner' },
+			replyForm.data.body
+		);
+		if (!result.ok) {
+			if (result.status === 404) error(404, NOT_FOUND);
+			return message(replyForm, result.message, { status: result.status });
+		}
+		await requestEmailDelivery(result.emailIds);
+		redirect(303, `/owner/jobs/${params.id}/quotes/${params.installerId}?replied=1#questions`);
+	}
+} satisfies Actions;

@@ -1,0 +1,126 @@
+import type { Browser, Page } from '@playwright/test';
+import { DEMO, expect, signIn, test, waitForMail } from './fixtures';
+
+const JOB = '2018 Demo Hatch';
+const RUTH = 'ruth.akande@tapline.test';
+
+/** Signs an installer in, finds the demo hatch on the board and opens it. */
+async function openHatchFromBoard(page: Page) {
+	await page.getByRole('link', { name: 'Jobs near you' }).first().click();
+	await expect(page.getByRole('heading', { name: 'Jobs near you' })).toBeVisible();
+	await expect(page.getByTestId('job-map')).toBeVisible();
+	// The table refreshes from /api/jobs once the map reports its bounds.
+	await expect(page.getByTestId('board-status')).toHaveAttribute('data-source', 'map');
+	await expect(page.getByTestId('board-status')).toContainText('in view');
+	const row = page.getByTestId('job-row').filter({ hasText: JOB });
+	await expect(row).toBeVisible();
+	await expect(row).toContainText('Walkerville');
+	await expect(
+		page.getByTestId('job-marker').or(page.getByTestId('job-cluster')).first()
+	).toBeVisible();
+	await row.getByRole('link', { name: JOB }).click();
+	await expect(page.getByRole('heading', { name: JOB })).toBeVisible();
+}
+
+/** Sends a quote with the prefilled times, labour as given. */
+async function sendQuote(page: Page, labour: string) {
+	const form = page.getByTestId('quote-form');
+	await form.getByLabel('Labour ($, incl. GST)').fill(labour);
+	await expect(form.getByLabel('Time 1: date')).not.toHaveValue('');
+	await expect(form.getByLabel('Time 2: date')).not.toHaveValue('');
+	await form.getByRole('button', { name: 'Send the quote' }).click();
+	await expect(page.getByText(/Quote sent \(revision 1\)/)).toBeVisible();
+	await expect(page.getByTestId('my-quote-status')).toContainText('live');
+}
+
+async function installerPage(browser: Browser, email: string) {
+	const context = await browser.newContext();
+	const page = await context.newPage();
+	await signIn(page, email);
+	return page;
+}
+
+test('installers find a demo job on the map and quote; the owner compares and books one', async ({
+	browser
+}, testInfo) => {
+	test.setTimeout(120_000);
+
+	// The demo installer (Norwood, 30 km) quotes and asks a question with a phone number in it.
+	const demo = await installerPage(browser, DEMO.installer);
+	await openHatchFromBoard(demo);
+	await expect(demo.getByText(/pin is the centre of a 1 km square/)).toBeVisible();
+	await expect(demo.getByText('14 Demo Court')).toHaveCount(0);
+	await sendQuote(demo, '230.00');
+	await demo.getByLabel('Ask the owner').fill('Is the car garaged? Call me on 0412 345 678');
+	await demo.getByRole('button', { name: 'Send', exact: true }).click();
+	await expect(demo.getByTestId('thread')).toContainText(
+		'Is the car garaged? Call me on [hidden until booked]'
+	);
+
+	// A second vetted installer whose circle covers the job (Prospect, 20 km) quotes too.
+	const ruth = await installerPage(browser, RUTH);
+	await openHatchFromBoard(ruth);
+	await ruth.goBack();
+	await expect(ruth.getByTestId('board-status')).toHaveAttribute('data-source', 'map');
+	await ruth.screenshot({ path: testInfo.outputPath('board.png'), fullPage: true });
+	await ruth
+		.getByTestId('job-row')
+		.filter({ hasText: JOB })
+		.getByRole('link', { name: JOB })
+		.click();
+	await sendQuote(ruth, '190.00');
+
+	// The owner compares the two quotes, sees the formula, and books the demo installer.
+	const owner = await installerPage(browser, DEMO.owner);
+	await waitForMail(DEMO.owner, /quotes? for your 2018 Demo Hatch/);
+	await owner.getByRole('link', { name: JOB }).first().click();
+	await owner.getByRole('link', { name: /Compare quotes \(2\)/ }).click();
+	await expect(owner.getByRole('heading', { name: 'Compare quotes' })).toBeVisible();
+	await expect(owner.getByTestId('quote-row')).toHaveCount(2);
+	await expect(owner.getByTestId('best-fit-formula')).toContainText('45 % price');
+	await expect(owner.getByTestId('quote-table')).toContainText('No reviews yet');
+	await owner.screenshot({ path: testInfo.outputPath('comparison.png'), fullPage: true });
+	// Sorting by total puts the cheaper quote (Ruth's labour was $40 less) first.
+	await owner.getByRole('link', { name: 'Total' }).click();
+	await expect(owner.getByTestId('quote-row').first()).toContainText('Headliner Hands');
+
+	const demoRow = owner.getByTestId('quote-row').filter({ hasText: 'Fuse & Fettle' });
+	await demoRow.getByRole('link', { name: 'Details and booking' }).click();
+	await expect(owner.getByTestId('thread')).toContainText('[hidden until booked]');
+	await owner.getByRole('radio').first().check();
+	await owner.getByRole('button', { name: 'Book this time' }).click();
+	await expect(owner.getByTestId('booking-status')).toHaveText('Provisional: waiting for payment');
+	await expect(owner.getByTestId('hold-note')).toContainText(
+		/Provisional until paid; slot held until \d{2}:\d{2}/
+	);
+	await owner.getByRole('button', { name: 'Pay into held funds' }).click();
+	await expect(owner.getByRole('alert')).toContainText('Payment into held funds is not open yet');
+
+	// The other installer's quote shows declined, and they got a polite e-mail.
+	await ruth.reload();
+	await expect(ruth.getByTestId('my-quote-status')).toContainText('declined');
+	const declined = await waitForMail(RUTH, /went to another installer/);
+	expect(declined.text).toContain('Thanks for quoting');
+
+	// The booked installer now sees the owner's name and address.
+	await demo.reload();
+	await expect(demo.getByTestId('booked-details')).toContainText('14 Demo Court, Walkerville');
+	await expect(demo.getByTestId('booked-details')).toContainText('Marnie Okafor');
+});
+
+test('the job board API answers 401, 403 and 400 with messages', async ({ page, browser }) => {
+	const anonymous = await page.request.get('/api/jobs');
+	expect(anonymous.status()).toBe(401);
+	const owner = await installerPage(browser, DEMO.owner);
+	const forbidden = await owner.request.get('/api/jobs');
+	expect(forbidden.status()).toBe(403);
+	const installer = await installerPage(browser, DEMO.installer);
+	const bad = await installer.request.get('/api/jobs?bounds=1,2,3&limit=500');
+	expect(bad.status()).toBe(400);
+	expect(((await bad.json()) as { message: string }).message).toContain('bounds must be');
+	const ok = await installer.request.get('/api/jobs?limit=2&sort=newest');
+	expect(ok.status()).toBe(200);
+	const body = (await ok.json()) as { jobs: unknown[]; total: number; nextCursor: string | null };
+	expect(body.jobs.length).toBeLessThanOrEqual(2);
+	expect(body.total).toBeGreaterThan(0);
+});
