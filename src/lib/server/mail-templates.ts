@@ -8,18 +8,9 @@ import {
 	type MarketplaceEmail
 } from './marketplace-mail';
 
-export interface RenderedEmail {
-	subject: string;
-	html: string;
-	text: string;
-}
+import { renderBlock, type RenderedEmail } from './mail-layout';
 
-interface Block {
-	heading: string;
-	paragraphs: string[];
-	action?: { label: string; url: string };
-	footnote?: string;
-}
+export type { RenderedEmail };
 
 export type EmailTemplate =
 	| { template: 'verify-email'; data: { displayName: string; url: string } }
@@ -54,39 +45,6 @@ const formatDay = (day: string) =>
 		year: 'numeric',
 		timeZone: 'UTC'
 	});
-
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
-
-function renderBlock(subject: string, block: Block): RenderedEmail {
-	const paras = block.paragraphs
-		.map((p) => `<p style="margin:0 0 14px;line-height:1.55">${escapeHtml(p)}</p>`)
-		.join('');
-	const action = block.action
-		? `<p style="margin:22px 0"><a href="${escapeHtml(block.action.url)}" style="background:#172030;color:#ffffff;padding:12px 20px;border-radius:6px;text-decoration:none;font-weight:700">${escapeHtml(block.action.label)}</a></p>` +
-			`<p style="margin:0 0 14px;font-size:13px;color:#56677c">Or paste this address into your browser: ${escapeHtml(block.action.url)}</p>`
-		: '';
-	const foot = block.footnote
-		? `<p style="margin:18px 0 0;font-size:13px;color:#56677c">${escapeHtml(block.footnote)}</p>`
-		: '';
-	const html = `<!doctype html><html lang="en-AU"><body style="margin:0;background:#f4f6f8;font-family:Nunito,Arial,sans-serif;color:#172030">
-<div style="max-width:560px;margin:0 auto;padding:24px">
-<p style="font-weight:900;font-size:20px;margin:0 0 16px;color:#172030">Tap<span style="color:#c96106">line</span></p>
-<div style="background:#ffffff;border:1px solid #cbd3dc;border-radius:12px;padding:24px">
-<h1 style="font-size:20px;margin:0 0 14px">${escapeHtml(block.heading)}</h1>${paras}${action}${foot}
-</div>
-<p style="font-size:12px;color:#74859a;margin:16px 0 0">Tapline connects car owners with vetted installers for hard-wired dash cameras.</p>
-</div></body></html>`;
-	const text = [
-		block.heading,
-		'',
-		...block.paragraphs.flatMap((p) => [p, '']),
-		...(block.action ? [`${block.action.label}: ${block.action.url}`, ''] : []),
-		...(block.footnote ? [block.footnote, ''] : []),
-		'--',
-		'Tapline connects car owners with vetted installers for hard-wired dash cameras.'
-	].join('\n');
-	return { subject, html, text };
-}
 
 /** Renders one of Tapline's e-mails. */
 export function renderEmail(message: EmailTemplate): RenderedEmail {
