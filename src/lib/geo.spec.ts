@@ -84,6 +84,16 @@ describe('distanceKm', () => {
 		expect(distanceKm(GLENELG, GLENELG)).toBe(0);
 	});
 
+	it('matches the published BNA–LAX haversine example', () => {
+		// Rosetta Code, task "Haversine formula": Nashville International (N 36°7.2', W 86°40.2') to
+		// Los Angeles International (N 33°56.4', W 118°24.0') with R = 6372.8 km gives
+		// 2887.2599506071106 km (figures as published there, recalled from memory). turf uses the
+		// mean radius 6371.0088 km, so rescale before comparing.
+		const bna = { lat: 36 + 7.2 / 60, lng: -(86 + 40.2 / 60) };
+		const lax = { lat: 33 + 56.4 / 60, lng: -(118 + 24 / 60) };
+		expect((distanceKm(bna, lax) * 6372.8) / EARTH_RADIUS_KM).toBeCloseTo(2887.2599506, 5);
+	});
+
 	it('matches haversine examples worked by hand', () => {
 		// Worked by hand: A = (0°, 0°), B = (60° N, 90° E).
 		// hav(c) = hav(Δφ) + cos φ1 cos φ2 hav(Δλ) = sin²(30°) + 1 · 0.5 · sin²(45°)
