@@ -33,6 +33,7 @@ export const vettingStatus = pgEnum('vetting_status', [
 ]);
 
 const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
+const updatedAt = () => timestamp('updated_at', { withTimezone: true }).notNull().defaultNow();
 
 export const user = pgTable('user', {
 	id: text('id').primaryKey(),
@@ -128,7 +129,7 @@ export const installerProfile = pgTable(
 		vettingStatus: vettingStatus('vetting_status').notNull().default('applied'),
 		submittedAt: timestamp('submitted_at', { withTimezone: true }),
 		createdAt: createdAt(),
-		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+		updatedAt: updatedAt()
 	},
 	(t) => [
 		index('installer_profile_lat_lng_idx').on(t.latitude, t.longitude),
@@ -266,7 +267,7 @@ export const job = pgTable(
 		withdrawnAt: timestamp('withdrawn_at', { withTimezone: true }),
 		submittedAt: timestamp('submitted_at', { withTimezone: true }),
 		createdAt: createdAt(),
-		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+		updatedAt: updatedAt()
 	},
 	(t) => [
 		index('job_owner_idx').on(t.ownerId, t.createdAt),
@@ -352,7 +353,7 @@ export const quote = pgTable(
 		distanceKm: doublePrecision('distance_km'),
 		expiresAt: timestamp('expires_at', { withTimezone: true }),
 		createdAt: createdAt(),
-		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+		updatedAt: updatedAt()
 	},
 	(t) => [
 		uniqueIndex('quote_job_installer_idx').on(t.jobId, t.installerId),
