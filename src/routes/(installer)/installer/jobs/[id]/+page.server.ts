@@ -4,13 +4,12 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/guards';
 import { listJobPhotos } from '$lib/server/jobs';
 import { requestQuoteDigest } from '$lib/server/marketplace-work';
+import { sendThreadMessage } from '$lib/server/thread-actions';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
-import { requestEmailDelivery } from '$lib/server/queue';
 import {
 	formatSlot,
 	listJobMessages,
 	listQuoteRevisions,
-	postJobMessage,
 	submitQuote,
 	withdrawQuote
 } from '$lib/server/quotes';
@@ -115,18 +114,14 @@ export const actions = {
 		const { installer } = await context();
 		const askForm = await superValidate(request, zod4(askSchema));
 		if (!askForm.valid) return fail(400, { askForm });
-		const result = await postJobMessage(
-			params.id,
-			installer.id,
+		const sent = await sendThreadMessage(
+			askForm,
+			{ jobId: params.id, installerId: installer.id },
 			{ id: installer.id, role: 'installer' },
-			askForm.data.body
+			NOT_FOUND
 		);
-		if (!result.ok) {
-			if (result.status === 404) error(404, NOT_FOUND);
-			return message(askForm, result.message, { status: result.status });
-		}
-		await requestEmailDelivery(result.emailIds);
-		const masked = result.masked.length > 0 ? '?masked=1' : '';
+		if ('refusal' in sent) return sent.refusal;
+		const masked = sent.masked.length > 0 ? '?masked=1' : '';
 		redirect(303, `/installer/jobs/${params.id}${masked}#questions`);
 	}
 } satisfies Actions;

@@ -6,12 +6,8 @@ import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { requestEmailDelivery } from '$lib/server/queue';
-import {
-	formatSlot,
-	listJobMessages,
-	listQuotesForOwner,
-	postJobMessage
-} from '$lib/server/quotes';
+import { sendThreadMessage } from '$lib/server/thread-actions';
+import { formatSlot, listJobMessages, listQuotesForOwner } from '$lib/server/quotes';
 import type { Actions, PageServerLoad } from './$types';
 
 const bookSchema = z.object({
@@ -94,17 +90,13 @@ export const actions = {
 		const owner = requireRole('owner');
 		const replyForm = await superValidate(request, zod4(replySchema));
 		if (!replyForm.valid) return fail(400, { replyForm });
-		const result = await postJobMessage(
-			params.id,
-			params.installerId,
+		const sent = await sendThreadMessage(
+			replyForm,
+			{ jobId: params.id, installerId: params.installerId },
 			{ id: owner.id, role: 'owner' },
-			replyForm.data.body
+			NOT_FOUND
 		);
-		if (!result.ok) {
-			if (result.status === 404) error(404, NOT_FOUND);
-			return message(replyForm, result.message, { status: result.status });
-		}
-		await requestEmailDelivery(result.emailIds);
+		if ('refusal' in sent) return sent.refusal;
 		redirect(303, `/owner/jobs/${params.id}/quotes/${params.installerId}?replied=1#questions`);
 	}
 } satisfies Actions;
