@@ -215,3 +215,9 @@ function assertInterval(slot: Interval): void {
 		throw new RangeError('A slot must end after it starts');
 	}
 }
+/** A slot as the installer's local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. */
+export function formatSlot(slot: { start: string; end: string }, timeZone: string): string {
+	const start = new Date(slot.start);
+	const end = new Date(slot.end);
+	return `${formatInZone(start, timeZone, 'EEE d MMM, h:mm a')} – ${formatInZone(end, timeZone, 'h:mm a')}`;
+}

@@ -3,6 +3,7 @@
  * have checked before approving, what an application still lacks, and when insurance reminders
  * fall due. No I/O, so the pages, the server module and the tests share one source of truth.
  */
+import { CHECKLIST_LABELS } from './labels';
 import { formatInZone } from './time';
 
 /** Where an application stands; mirrors the `vetting_status` enum in the database. */
@@ -18,15 +19,6 @@ export type VettingStatus = (typeof VETTING_STATUSES)[number];
 /** A saved but never submitted application is a draft (its row has no `submitted_at`). */
 export type VettingStage = VettingStatus | 'draft';
 
-export const STAGE_LABELS: Record<VettingStage, string> = {
-	draft: 'Not sent yet',
-	applied: 'Waiting for an admin',
-	waiting_on_installer: 'Waiting on the installer',
-	approved: 'Approved',
-	rejected: 'Rejected',
-	suspended: 'Suspended'
-};
-
 /** What an installer fits, as stored in `installer_profile.skills`. */
 export const INSTALLER_SKILLS = [
 	'parking-mode',
@@ -37,23 +29,8 @@ export const INSTALLER_SKILLS = [
 ] as const;
 export type InstallerSkill = (typeof INSTALLER_SKILLS)[number];
 
-export const SKILL_LABELS: Record<InstallerSkill, string> = {
-	'parking-mode': 'Hard-wired parking mode',
-	'tailgate-rear': 'Rear camera through tailgates',
-	'vans-utes': 'Vans and utes',
-	'obd-power': 'OBD power',
-	'cabin-camera': 'Cabin cameras'
-};
-
 export const DOCUMENT_KINDS = ['insurance', 'photo-id', 'qualification', 'gallery'] as const;
 export type DocumentKind = (typeof DOCUMENT_KINDS)[number];
-
-export const DOCUMENT_KIND_LABELS: Record<DocumentKind, string> = {
-	insurance: 'Public liability insurance certificate',
-	'photo-id': 'Photo ID',
-	qualification: 'Electrical or auto-electrical qualification',
-	gallery: 'Photo of a past fit (shown on your public profile)'
-};
 
 /**
  * Smallest public liability cover Tapline accepts, in cents: $10 million. Trade bodies and
@@ -87,15 +64,6 @@ export const ADMIN_DECISIONS = [
 	'approve-insurance'
 ] as const;
 export type AdminDecision = (typeof ADMIN_DECISIONS)[number];
-
-export const DECISION_LABELS: Record<AdminDecision, string> = {
-	approve: 'Approve',
-	'request-info': 'Ask for more',
-	reject: 'Reject',
-	suspend: 'Suspend',
-	reinstate: 'Reinstate',
-	'approve-insurance': 'Approve new insurance'
-};
 
 /** Decisions whose message goes to the installer and must therefore be written. */
 export const DECISIONS_NEEDING_MESSAGE: readonly AdminDecision[] = [
@@ -173,12 +141,6 @@ export const CHECKLIST_ITEMS = [
 ] as const;
 export type ChecklistItem = (typeof CHECKLIST_ITEMS)[number];
 export type Checklist = Record<ChecklistItem, boolean>;
-
-export const CHECKLIST_LABELS: Record<ChecklistItem, string> = {
-	identityMatches: 'Photo ID matches the contact name and business',
-	insuranceCurrent: 'Insurance certificate is current and the cover meets the minimum',
-	abnValidAndActive: 'ABN is valid and active on the public register'
-};
 
 /** What the server knows about an application when an admin decides. */
 export interface ApplicationFacts {
@@ -367,10 +329,6 @@ export function canViewInstallerDocument(
 	return 'forbidden';
 }
 
-/** Orders of the admin queue, as offered in its sort menu. */
-export const QUEUE_SORT_LABELS = {
-	oldest: 'Waiting longest',
-	newest: 'Newest first',
-	name: 'Business name',
-	expiry: 'Insurance expiring soonest'
-} as const;
+/** Orders of the admin queue (labels in `$lib/labels`). */
+export const QUEUE_SORTS = ['oldest', 'newest', 'name', 'expiry'] as const;
+export type QueueSort = (typeof QUEUE_SORTS)[number];

@@ -4,12 +4,8 @@ import { db } from '$lib/server/db';
 import { booking, emailOutbox, job, jobMessage, quote, quoteRevision } from '$lib/server/db/schema';
 import { MASK_PLACEHOLDER } from '$lib/masking';
 import { bookQuote } from '$lib/server/bookings';
-import {
-	listJobMessages,
-	postJobMessage,
-	sendOwnerQuoteDigest,
-	submitQuote
-} from '$lib/server/quotes';
+import { listJobMessages, postJobMessage } from '$lib/server/threads';
+import { sendOwnerQuoteDigest, submitQuote } from '$lib/server/quotes';
 import {
 	ADELAIDE,
 	goodQuote,

@@ -7,11 +7,8 @@ import {
 	insuranceReminder,
 	vettingEvent
 } from '$lib/server/db/schema';
-import {
-	decideApplication,
-	runInsuranceExpiryCheck,
-	saveInsuranceDetails
-} from '$lib/server/vetting';
+import { decideApplication, runInsuranceExpiryCheck } from '$lib/server/vetting';
+import { saveInsuranceDetails } from '$lib/server/installers';
 import { localToUtc } from '$lib/time';
 import { canQuote, localDate } from '$lib/vetting';
 import { ALL_TICKED, makeAccount, makeApplicant } from './vetting-helpers';

@@ -2,13 +2,9 @@
 // through the same server functions the pages use.
 import { db } from '$lib/server/db';
 import { user, type Role } from '$lib/server/db/schema';
-import {
-	addInstallerDocument,
-	saveApplication,
-	saveInsuranceDetails,
-	saveWeeklyHours,
-	submitApplication
-} from '$lib/server/vetting';
+import { addInstallerDocument } from '$lib/server/documents';
+import { saveApplication, saveInsuranceDetails, submitApplication } from '$lib/server/installers';
+import { saveWeeklyHours } from '$lib/server/diary';
 import type { DocumentKind } from '$lib/vetting';
 
 let n = 0;

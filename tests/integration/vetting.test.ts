@@ -2,15 +2,9 @@ import { and, eq, sql } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { emailOutbox, installerProfile, vettingEvent } from '$lib/server/db/schema';
-import {
-	decideApplication,
-	findViewableDocument,
-	getPublicProfile,
-	listVettingQueue,
-	saveApplication,
-	submitApplication,
-	type DecisionInput
-} from '$lib/server/vetting';
+import { decideApplication, listVettingQueue, type DecisionInput } from '$lib/server/vetting';
+import { findViewableDocument } from '$lib/server/documents';
+import { getPublicProfile, saveApplication, submitApplication } from '$lib/server/installers';
 import {
 	addDocument,
 	ALL_TICKED,

@@ -142,15 +142,6 @@ export const photoKindSchema = z.enum(Object.keys(PHOTO_KINDS) as [PhotoKind, ..
 	error: 'Say which photo this is'
 });
 
-export const JOB_STATUS_LABELS = {
-	drafting: 'Draft',
-	collecting_quotes: 'Open for quotes',
-	booked: 'Booked',
-	fitted: 'Fitted',
-	settled: 'Settled',
-	withdrawn: 'Withdrawn'
-} as const;
-
 /** How far ahead an owner may ask for a fit. */
 export const MAX_DAYS_AHEAD = 90;
 
@@ -167,3 +158,14 @@ export function preferredDateProblem(date: string, today: string): string | null
 	if (ahead > MAX_DAYS_AHEAD) return `Choose a date within ${MAX_DAYS_AHEAD} days`;
 	return null;
 }
+
+/** Where a job stands; mirrors the `job_status` enum (labels in `$lib/labels`). */
+export const JOB_STATUSES = [
+	'drafting',
+	'collecting_quotes',
+	'booked',
+	'fitted',
+	'settled',
+	'withdrawn'
+] as const;
+export type JobStatusValue = (typeof JOB_STATUSES)[number];

@@ -9,11 +9,12 @@
 import { and, eq, inArray, lte, ne, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import { env } from '$env/dynamic/private';
+import { formatSlot } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, quote, user } from './db/schema';
 import { queueEmail } from './mail';
-import { formatSlot, refuse, type MarketProblem } from './quotes';
+import { refuse, type Refusal } from './refusal';
 
 /** How long a provisional booking holds the installer's slot while the owner pays (Tapline's choice). */
 export const HOLD_MINUTES = 30;
@@ -21,7 +22,7 @@ export const HOLD_MINUTES = 30;
 const uuid = z.uuid();
 const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
 
-export type BookingOutcome = { ok: true; bookingId: string; emailIds: string[] } | MarketProblem;
+export type BookingOutcome = { ok: true; bookingId: string; emailIds: string[] } | Refusal;
 
 /** The PostgreSQL error code of a failed query, looking through Drizzle's wrapper. */
 function pgCode(err: unknown): string | undefined {

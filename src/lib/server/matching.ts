@@ -11,16 +11,13 @@ import { env } from '$env/dynamic/private';
 import { boundingBox, distanceKm, type BoundingBox, type LatLng } from '$lib/geo';
 import {
 	approximateLocation,
-	BOARD_DEFAULT_DIR,
-	BOARD_SORTS,
-	decodeCursor,
 	matchProblem,
-	pageAfter,
-	type BoardJob,
-	type BoardSort,
+	reachOf,
 	type InstallerReach,
 	type SkillNeeds
 } from '$lib/matching';
+import { BOARD_DEFAULT_DIR, BOARD_SORTS, type BoardJob, type BoardSort } from '$lib/board';
+import { decodeCursor, pageAfter } from '$lib/paging';
 import { BODY_STYLES, CAMERA_SETUPS, POWER_MODES } from '$lib/scope/request';
 import { canQuote } from '$lib/vetting';
 import { db } from './db';
@@ -52,11 +49,7 @@ export async function getInstallerContext(installerId: string): Promise<Installe
 	if (!p) return null;
 	return {
 		id: p.userId,
-		base: { lat: p.latitude, lng: p.longitude },
-		serviceRadiusKm: p.serviceRadiusKm,
-		skills: p.skills,
-		offersMobile: p.offersMobile,
-		offersWorkshop: p.offersWorkshop,
+		...reachOf(p),
 		canQuote: canQuote(p),
 		pausedReason: p.pausedReason,
 		vettingStatus: p.vettingStatus,
@@ -113,13 +106,7 @@ export async function findInstallersForJob(
 			displayName: r.displayName,
 			businessName: r.profile.businessName,
 			distanceKm: distanceKm(reach.location, { lat: r.profile.latitude, lng: r.profile.longitude }),
-			problem: matchProblem(reach, {
-				base: { lat: r.profile.latitude, lng: r.profile.longitude },
-				serviceRadiusKm: r.profile.serviceRadiusKm,
-				skills: r.profile.skills,
-				offersMobile: r.profile.offersMobile,
-				offersWorkshop: r.profile.offersWorkshop
-			})
+			problem: matchProblem(reach, reachOf(r.profile))
 		}))
 		.filter((r) => r.problem === null)
 		.sort((a, b) => a.distanceKm - b.distanceKm)

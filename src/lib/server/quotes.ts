@@ -1,55 +1,33 @@
 /**
- * Installers' quotes and the question-and-answer threads around them. A quote is written in one
- * transaction that locks the installer's profile (so a suspension or a second tab waits its turn)
- * and shares the job's row lock (so a booking in progress finishes first and the quote then sees
- * it); every revision is kept in quote_revision. Contact details in messages and quote notes are
- * masked until the job is booked with that installer.
+ * Installers' quotes. A quote is written in one transaction that locks the installer's profile (so
+ * a suspension or a second tab waits its turn) and shares the job's row lock (so a booking in
+ * progress finishes first and the quote then sees it); every revision is kept in quote_revision.
+ * Contact details in quote notes are masked until the job is booked with that installer.
  */
 import { and, asc, eq, gt, inArray, isNull, lt, or } from 'drizzle-orm';
 import { z } from 'zod';
 import { env } from '$env/dynamic/private';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
-import {
-	approximateLocation,
-	matchProblem,
-	priceQuote,
-	quoteProblems,
-	travelFeeCents
-} from '$lib/matching';
+import { approximateLocation, matchProblem, reachOf } from '$lib/matching';
+import { priceQuote, quoteProblems, travelFeeCents } from '$lib/pricing';
 import { formatAud } from '$lib/money';
 import type { Interval } from '$lib/schedule';
-import { formatInZone } from '$lib/time';
-import { db, type Tx } from './db';
+import { db } from './db';
 import {
 	booking,
-	installerBlockedDate,
-	installerHours,
 	installerProfile,
 	job,
-	jobMessage,
 	quote,
 	quoteRevision,
 	user,
 	type QuoteSlot
 } from './db/schema';
+import { loadDiary } from './diary';
 import { queueEmail } from './mail';
+import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
 
 const uuid = z.uuid();
-
-/** A refusal, with the HTTP status a page should answer with. */
-export type MarketProblem = {
-	ok: false;
-	status: 400 | 403 | 404 | 409;
-	message: string;
-	problems?: string[];
-};
-
-export const refuse = (
-	status: MarketProblem['status'],
-	message: string,
-	problems?: string[]
-): MarketProblem => ({ ok: false, status, message, ...(problems ? { problems } : {}) });
 
 const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
 
@@ -68,43 +46,7 @@ export interface QuoteInput {
 }
 
 export type QuoteOutcome =
-	| { ok: true; quoteId: string; jobId: string; revision: number; masked: MaskedKind[] }
-	| MarketProblem;
-
-const hhmm = (minute: number) =>
-	`${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(minute % 60).padStart(2, '0')}`;
-
-/** The installer's weekly hours, days off and live bookings, for checking slots. */
-export async function loadDiary(tx: Tx | typeof db, installerId: string, now: Date) {
-	const [hours, blocked, booked] = await Promise.all([
-		tx.select().from(installerHours).where(eq(installerHours.installerId, installerId)),
-		tx
-			.select({ day: installerBlockedDate.day })
-			.from(installerBlockedDate)
-			.where(eq(installerBlockedDate.installerId, installerId)),
-		tx
-			.select({ start: booking.slotStart, end: booking.slotEnd })
-			.from(booking)
-			.where(
-				and(
-					eq(booking.installerId, installerId),
-					or(
-						eq(booking.status, 'confirmed'),
-						and(eq(booking.status, 'awaiting_payment'), gt(booking.holdExpiresAt, now))
-					)
-				)
-			)
-	]);
-	return {
-		hours: hours.map((h) => ({
-			weekday: h.weekday as 0 | 1 | 2 | 3 | 4 | 5 | 6,
-			start: hhmm(h.startMinute),
-			end: hhmm(h.endMinute)
-		})),
-		blocked: blocked.map((b) => b.day),
-		bookings: booked
-	};
-}
+	{ ok: true; quoteId: string; jobId: string; revision: number; masked: MaskedKind[] } | Refusal;
 
 /**
  * Sends or revises the installer's quote on a job. Refuses, with a message for the installer, a
@@ -142,13 +84,7 @@ export async function submitQuote(
 		const reach = jobReach(row);
 		if (!reach || !row.scope) return refuse(404, 'There is no such job.');
 		const base = { lat: profile.latitude, lng: profile.longitude };
-		const problem = matchProblem(reach, {
-			base,
-			serviceRadiusKm: profile.serviceRadiusKm,
-			skills: profile.skills,
-			offersMobile: profile.offersMobile,
-			offersWorkshop: profile.offersWorkshop
-		});
+		const problem = matchProblem(reach, reachOf(profile));
 		if (problem) return refuse(403, problem.message);
 
 		const [existing] = await tx
@@ -205,7 +141,7 @@ export async function submitQuote(
 		) {
 			problems.push('Warranty on workmanship is a whole number of months, 0 to 120.');
 		}
-		if (problems.length > 0) return refuse(400, problems[0] ?? 'Check the quote.', problems);
+		if (problems.length > 0) return refuse(400, problems[0] ?? 'Check the quote.', { problems });
 
 		const masked = input.message ? maskContactDetails(input.message) : null;
 		const slots: QuoteSlot[] = [...input.slots]
@@ -319,171 +255,6 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
 	}));
 }
 
-/** Who may talk in a thread, and whether contact details are still masked in it. */
-async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: string) {
-	const [row] = await tx
-		.select({
-			ownerId: job.ownerId,
-			ownerEmail: user.email,
-			title: job.title,
-			status: job.status,
-			latitude: job.latitude,
-			longitude: job.longitude,
-			locationMode: job.locationMode,
-			bodyStyle: job.bodyStyle,
-			cameras: job.cameras,
-			power: job.power
-		})
-		.from(job)
-		.innerJoin(user, eq(user.id, job.ownerId))
-		.where(eq(job.id, jobId));
-	if (!row) return null;
-	const [profile] = await tx
-		.select({
-			businessName: installerProfile.businessName,
-			email: user.email,
-			profile: installerProfile
-		})
-		.from(installerProfile)
-		.innerJoin(user, eq(user.id, installerProfile.userId))
-		.where(eq(installerProfile.userId, installerId));
-	if (!profile) return null;
-	const [hasQuote] = await tx
-		.select({ id: quote.id })
-		.from(quote)
-		.where(and(eq(quote.jobId, jobId), eq(quote.installerId, installerId)));
-	const [bookedWith] = await tx
-		.select({ id: booking.id })
-		.from(booking)
-		.where(
-			and(
-				eq(booking.jobId, jobId),
-				eq(booking.installerId, installerId),
-				inArray(booking.status, ['awaiting_payment', 'confirmed'])
-			)
-		);
-	const reach = jobReach(row);
-	const p = profile.profile;
-	const offered =
-		row.status === 'collecting_quotes' &&
-		reach !== null &&
-		p.vettingStatus === 'approved' &&
-		p.pausedReason === null &&
-		matchProblem(reach, {
-			base: { lat: p.latitude, lng: p.longitude },
-			serviceRadiusKm: p.serviceRadiusKm,
-			skills: p.skills,
-			offersMobile: p.offersMobile,
-			offersWorkshop: p.offersWorkshop
-		}) === null;
-	return {
-		...row,
-		businessName: profile.businessName,
-		installerEmail: profile.email,
-		installerMayWrite: offered || Boolean(hasQuote) || Boolean(bookedWith),
-		hasQuote: Boolean(hasQuote),
-		booked: Boolean(bookedWith)
-	};
-}
-
-export type MessageOutcome = { ok: true; masked: MaskedKind[]; emailIds: string[] } | MarketProblem;
-
-/**
- * Adds a message to the thread between a job's owner and one installer, masking phone numbers,
- * e-mail addresses and links (see CONTACT_PATTERNS) unless the job is booked with that installer,
- * and e-mails the other side.
- * @param author who writes: the job's owner or the installer of the thread
- */
-export async function postJobMessage(
-	jobId: string,
-	installerId: string,
-	author: { id: string; role: 'owner' | 'installer' | 'admin' },
-	body: string
-): Promise<MessageOutcome> {
-	if (!uuid.safeParse(jobId).success) return refuse(404, 'There is no such job.');
-	const text = body.trim();
-	if (text.length === 0 || text.length > 2000) {
-		return refuse(400, 'Write a message of 1 to 2,000 characters.');
-	}
-	return db.transaction(async (tx) => {
-		const access = await threadAccess(tx, jobId, installerId);
-		if (!access) return refuse(404, 'There is no such job.');
-		const isOwner = author.role === 'owner' && author.id === access.ownerId;
-		const isInstaller = author.role === 'installer' && author.id === installerId;
-		if (!isOwner && !isInstaller) return refuse(404, 'There is no such job.');
-		if (isInstaller && !access.installerMayWrite) {
-			return refuse(403, 'This job is no longer open to you.');
-		}
-		if (isOwner && !access.hasQuote) {
-			const [asked] = await tx
-				.select({ id: jobMessage.id })
-				.from(jobMessage)
-				.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
-				.limit(1);
-			if (!asked) return refuse(404, 'This installer has not quoted or asked anything.');
-		}
-		const masked = access.booked ? { text, masked: [] as MaskedKind[] } : maskContactDetails(text);
-		await tx.insert(jobMessage).values({
-			jobId,
-			installerId,
-			authorId: author.id,
-			body: masked.text,
-			masked: masked.masked
-		});
-		const title = access.title ?? 'your dash camera job';
-		const emailId = isOwner
-			? await queueEmail(tx, access.installerEmail, {
-					template: 'job-message',
-					data: {
-						heading: `The owner of the ${title} replied`,
-						body: masked.text,
-						url: `${origin()}/installer/jobs/${jobId}#questions`
-					}
-				})
-			: await queueEmail(tx, access.ownerEmail, {
-					template: 'job-message',
-					data: {
-						heading: `${access.businessName} wrote about your ${title}`,
-						body: masked.text,
-						url: `${origin()}/owner/jobs/${jobId}/quotes/${installerId}`
-					}
-				});
-		return { ok: true, masked: masked.masked, emailIds: [emailId] };
-	});
-}
-
-/** The thread between a job's owner and one installer, oldest first. */
-export function listJobMessages(jobId: string, installerId: string) {
-	return db
-		.select({
-			id: jobMessage.id,
-			authorId: jobMessage.authorId,
-			body: jobMessage.body,
-			masked: jobMessage.masked,
-			createdAt: jobMessage.createdAt
-		})
-		.from(jobMessage)
-		.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
-		.orderBy(asc(jobMessage.createdAt));
-}
-
-/** Installers who asked about an owner's job without quoting (their threads have no quote row). */
-export async function listAskingInstallers(jobId: string) {
-	const rows = await db
-		.selectDistinct({
-			installerId: jobMessage.installerId,
-			businessName: installerProfile.businessName
-		})
-		.from(jobMessage)
-		.innerJoin(installerProfile, eq(installerProfile.userId, jobMessage.installerId))
-		.where(eq(jobMessage.jobId, jobId));
-	const quoted = await db
-		.select({ installerId: quote.installerId })
-		.from(quote)
-		.where(eq(quote.jobId, jobId));
-	return rows.filter((r) => !quoted.some((q) => q.installerId === r.installerId));
-}
-
 /**
  * E-mails an owner about quotes that arrived since the last such e-mail, in one message however
  * many came in; marks the job so the next batch starts after them. Idempotent: a second run with
@@ -548,11 +319,4 @@ export async function listJobsWithUnsentQuotes(olderThan: Date) {
 		)
 		.limit(200);
 	return rows.map((r) => r.jobId);
-}
-
-/** A slot as the installer's local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. */
-export function formatSlot(slot: QuoteSlot, timeZone: string): string {
-	const start = new Date(slot.start);
-	const end = new Date(slot.end);
-	return `${formatInZone(start, timeZone, 'EEE d MMM, h:mm a')} – ${formatInZone(end, timeZone, 'h:mm a')}`;
 }

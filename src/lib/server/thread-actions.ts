@@ -6,7 +6,7 @@
 import { error } from '@sveltejs/kit';
 import { message, type SuperValidated } from 'sveltekit-superforms';
 import { requestEmailDelivery } from './queue';
-import { postJobMessage } from './quotes';
+import { postJobMessage } from './threads';
 
 /** Posts `form.data.body` to the thread; returns the refusal to send back, or what was masked. */
 export async function sendThreadMessage(

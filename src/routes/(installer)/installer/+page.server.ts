@@ -1,7 +1,7 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/guards';
 import { requestEmailDelivery } from '$lib/server/queue';
-import { getApplicationStatus, submitApplication } from '$lib/server/vetting';
+import { getApplicationStatus, submitApplication } from '$lib/server/installers';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {

@@ -1,5 +1,6 @@
 import { requireRole } from '$lib/server/guards';
-import { listVettingQueue, QUEUE_SORTS, type QueueSort } from '$lib/server/vetting';
+import { listVettingQueue } from '$lib/server/vetting';
+import { QUEUE_SORTS, type QueueSort } from '$lib/vetting';
 import { VETTING_STATUSES, type VettingStatus } from '$lib/vetting';
 import type { PageServerLoad } from './$types';
 

@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { applicationSchema } from '$lib/forms/vetting';
 import { GeocoderUnavailable, searchPlaces } from '$lib/server/geocoding';
 import { requireRole } from '$lib/server/guards';
-import { getInstallerProfile, saveApplication, type BasePlace } from '$lib/server/vetting';
+import { getInstallerProfile, saveApplication, type BasePlace } from '$lib/server/installers';
 import { INSTALLER_SKILLS, stageOf, type InstallerSkill } from '$lib/vetting';
 import type { Actions, PageServerLoad } from './$types';
 

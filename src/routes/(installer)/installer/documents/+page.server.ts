@@ -5,12 +5,8 @@ import { insuranceSchema } from '$lib/forms/vetting';
 import { requireRole } from '$lib/server/guards';
 import { requestEmailDelivery } from '$lib/server/queue';
 import { discardUpload, storeUpload } from '$lib/server/uploads';
-import {
-	addInstallerDocument,
-	getInstallerProfile,
-	listInstallerDocuments,
-	saveInsuranceDetails
-} from '$lib/server/vetting';
+import { addInstallerDocument, listInstallerDocuments } from '$lib/server/documents';
+import { getInstallerProfile, saveInsuranceDetails } from '$lib/server/installers';
 import { DOCUMENT_TYPES, IMAGE_TYPES } from '$lib/uploads';
 import { DOCUMENT_KINDS, type DocumentKind } from '$lib/vetting';
 import type { Actions, PageServerLoad } from './$types';

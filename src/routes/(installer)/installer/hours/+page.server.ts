@@ -5,12 +5,12 @@ import { blockedDateSchema, HOURS_FORM_ORDER, weeklyHoursSchema } from '$lib/for
 import { requireRole } from '$lib/server/guards';
 import {
 	blockDate,
-	getInstallerProfile,
 	getWeeklyHours,
 	listBlockedDates,
 	saveWeeklyHours,
 	unblockDate
-} from '$lib/server/vetting';
+} from '$lib/server/diary';
+import { getInstallerProfile } from '$lib/server/installers';
 import { validateWeeklyHours, type Weekday, type WeeklyHours } from '$lib/schedule';
 import { localDate } from '$lib/vetting';
 import type { Actions, PageServerLoad } from './$types';

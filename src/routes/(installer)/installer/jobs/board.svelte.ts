@@ -4,7 +4,7 @@
  * dropped, so a quick pan never leaves stale rows on screen.
  */
 import type { MapBounds } from '$lib/components/JobMap.svelte';
-import { BOARD_DEFAULT_DIR, type BoardJob, type BoardSort } from '$lib/matching';
+import { BOARD_DEFAULT_DIR, type BoardJob, type BoardSort } from '$lib/board';
 
 export interface BoardFilters {
 	bodyStyle: string;

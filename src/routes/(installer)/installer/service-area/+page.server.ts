@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { serviceAreaSchema } from '$lib/forms/vetting';
 import { reversePlace } from '$lib/server/geocoding';
 import { requireRole } from '$lib/server/guards';
-import { getInstallerProfile, saveServiceArea } from '$lib/server/vetting';
+import { getInstallerProfile, saveServiceArea } from '$lib/server/installers';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {

@@ -1,5 +1,5 @@
 import { error } from '@sveltejs/kit';
-import { getPublicProfile } from '$lib/server/vetting';
+import { getPublicProfile } from '$lib/server/installers';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, locals }) => {

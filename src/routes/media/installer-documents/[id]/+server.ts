@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import { objectResponse } from '$lib/server/storage';
-import { findViewableDocument } from '$lib/server/vetting';
+import { findViewableDocument } from '$lib/server/documents';
 import type { RequestHandler } from './$types';
 
 /**

@@ -6,13 +6,9 @@ import { listJobPhotos } from '$lib/server/jobs';
 import { requestQuoteDigest } from '$lib/server/marketplace-work';
 import { sendThreadMessage } from '$lib/server/thread-actions';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
-import {
-	formatSlot,
-	listJobMessages,
-	listQuoteRevisions,
-	submitQuote,
-	withdrawQuote
-} from '$lib/server/quotes';
+import { formatSlot } from '$lib/schedule';
+import { listJobMessages } from '$lib/server/threads';
+import { listQuoteRevisions, submitQuote, withdrawQuote } from '$lib/server/quotes';
 import { askSchema, quoteFormSchema, toQuoteInput } from './quote-form';
 import { quoteFormDefaults } from './quote-defaults';
 import type { Actions, PageServerLoad } from './$types';

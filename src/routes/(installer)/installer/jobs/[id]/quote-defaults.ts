@@ -8,7 +8,7 @@ import { candidateSlots } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
 import { db } from '$lib/server/db';
 import type { InstallerContext, getJobForInstaller } from '$lib/server/matching';
-import { loadDiary } from '$lib/server/quotes';
+import { loadDiary } from '$lib/server/diary';
 import type { QuoteForm } from './quote-form';
 
 type FoundJob = NonNullable<Awaited<ReturnType<typeof getJobForInstaller>>>;

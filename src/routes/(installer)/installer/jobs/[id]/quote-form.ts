@@ -4,7 +4,7 @@
  * instants in the installer's zone by {@link toQuoteInput}; the business rules live in quotes.ts.
  */
 import { z } from 'zod';
-import { MAX_QUOTE_SLOTS } from '$lib/matching';
+import { MAX_QUOTE_SLOTS } from '$lib/pricing';
 import { localToUtc } from '$lib/time';
 import type { QuoteInput } from '$lib/server/quotes';
 

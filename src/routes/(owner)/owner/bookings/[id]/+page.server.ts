@@ -3,7 +3,7 @@ import { getOwnerBooking, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { startHeldFundsPayment } from '$lib/server/payments';
 import { requestEmailDelivery } from '$lib/server/queue';
-import { formatSlot } from '$lib/server/quotes';
+import { formatSlot } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = 'There is no such booking among yours.';

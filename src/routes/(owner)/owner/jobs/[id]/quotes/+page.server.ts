@@ -5,7 +5,8 @@ import { getLiveBookingForJob, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { requestEmailDelivery } from '$lib/server/queue';
-import { listAskingInstallers, listQuotesForOwner } from '$lib/server/quotes';
+import { listAskingInstallers } from '$lib/server/threads';
+import { listQuotesForOwner } from '$lib/server/quotes';
 import { COMPARISON_SORTS, compareQuotes, type ComparisonSort } from './comparison';
 import type { PageServerLoad } from './$types';
 

@@ -7,7 +7,9 @@ import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { requestEmailDelivery } from '$lib/server/queue';
 import { sendThreadMessage } from '$lib/server/thread-actions';
-import { formatSlot, listJobMessages, listQuotesForOwner } from '$lib/server/quotes';
+import { formatSlot } from '$lib/schedule';
+import { listJobMessages } from '$lib/server/threads';
+import { listQuotesForOwner } from '$lib/server/quotes';
 import type { Actions, PageServerLoad } from './$types';
 
 const bookSchema = z.object({

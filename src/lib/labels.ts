@@ -1,0 +1,149 @@
+/**
+ * The words people see for every status and option Tapline stores. One label per value, used on
+ * every page and in every e-mail; no raw enum value reaches a screen.
+ */
+import type { BoardSort } from './board';
+import type { JobStatusValue } from './forms/job';
+import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
+import type {
+	AdminDecision,
+	ChecklistItem,
+	DocumentKind,
+	InstallerSkill,
+	QueueSort,
+	VettingAction,
+	VettingStage
+} from './vetting';
+
+export const STAGE_LABELS: Record<VettingStage, string> = {
+	draft: 'Not sent yet',
+	applied: 'Waiting for an admin',
+	waiting_on_installer: 'Waiting on the installer',
+	approved: 'Approved',
+	rejected: 'Rejected',
+	suspended: 'Suspended'
+};
+
+export const SKILL_LABELS: Record<InstallerSkill, string> = {
+	'parking-mode': 'Hard-wired parking mode',
+	'tailgate-rear': 'Rear camera through tailgates',
+	'vans-utes': 'Vans and utes',
+	'obd-power': 'OBD power',
+	'cabin-camera': 'Cabin cameras'
+};
+
+export const DOCUMENT_KIND_LABELS: Record<DocumentKind, string> = {
+	insurance: 'Public liability insurance certificate',
+	'photo-id': 'Photo ID',
+	qualification: 'Electrical or auto-electrical qualification',
+	gallery: 'Photo of a past fit (shown on your public profile)'
+};
+
+export const DECISION_LABELS: Record<AdminDecision, string> = {
+	approve: 'Approve',
+	'request-info': 'Ask for more',
+	reject: 'Reject',
+	suspend: 'Suspend',
+	reinstate: 'Reinstate',
+	'approve-insurance': 'Approve new insurance'
+};
+
+export const CHECKLIST_LABELS: Record<ChecklistItem, string> = {
+	identityMatches: 'Photo ID matches the contact name and business',
+	insuranceCurrent: 'Insurance certificate is current and the cover meets the minimum',
+	abnValidAndActive: 'ABN is valid and active on the public register'
+};
+
+/** Orders of the admin queue, as offered in its sort menu. */
+export const QUEUE_SORT_LABELS: Record<QueueSort, string> = {
+	oldest: 'Waiting longest',
+	newest: 'Newest first',
+	name: 'Business name',
+	expiry: 'Insurance expiring soonest'
+};
+
+export const JOB_STATUS_LABELS: Record<JobStatusValue, string> = {
+	drafting: 'Draft',
+	collecting_quotes: 'Open for quotes',
+	booked: 'Booked',
+	fitted: 'Fitted',
+	settled: 'Settled',
+	withdrawn: 'Withdrawn'
+};
+
+export const BOARD_SORT_LABELS: Record<BoardSort, string> = {
+	distance: 'Nearest first',
+	newest: 'Newest first',
+	date: 'Soonest preferred date',
+	quotes: 'Fewest quotes so far'
+};
+
+/** Short words for the board's columns and filters. */
+export const BODY_STYLE_LABELS: Record<BodyStyle, string> = {
+	hatchback: 'Hatchback',
+	sedan: 'Sedan',
+	wagon: 'Wagon',
+	suv: 'SUV',
+	ute: 'Ute',
+	van: 'Van',
+	'people-mover': 'People mover'
+};
+export const CAMERA_LABELS: Record<CameraSetup, string> = {
+	front: 'Front',
+	'front-rear': 'Front + rear',
+	'front-rear-cabin': 'Front + rear + cabin'
+};
+export const POWER_LABELS: Record<PowerMode, string> = {
+	socket: 'Accessory socket',
+	'hardwired-switched': 'Hard-wired, switched',
+	'hardwired-parking': 'Hard-wired, parking mode',
+	obd: 'OBD with cut-off',
+	'battery-pack': 'Battery pack'
+};
+
+/** A label from one of the maps above, or the raw value when it is not in it. */
+export function labelOf(labels: Record<string, string>, value: string): string {
+	return labels[value] ?? value;
+}
+
+/** Where a quote stands, in the words both sides read. */
+export const QUOTE_STATUS_LABELS: Record<
+	'live' | 'accepted' | 'declined' | 'withdrawn' | 'lapsed',
+	string
+> = {
+	live: 'Open',
+	accepted: 'Booked',
+	declined: 'Not chosen',
+	withdrawn: 'Withdrawn',
+	lapsed: 'Expired'
+};
+
+/** Where a booking stands. */
+export const BOOKING_STATUS_LABELS: Record<
+	'awaiting_payment' | 'confirmed' | 'cancelled' | 'lapsed',
+	string
+> = {
+	awaiting_payment: 'Held, waiting for payment',
+	confirmed: 'Confirmed',
+	cancelled: 'Cancelled',
+	lapsed: 'Hold ran out'
+};
+
+/** What happened in an installer's vetting history, as an audit line. */
+export const VETTING_ACTION_LABELS: Record<VettingAction | 'insurance-updated', string> = {
+	submit: 'Application sent',
+	approve: 'Approved',
+	'request-info': 'Asked for more',
+	reject: 'Rejected',
+	suspend: 'Suspended',
+	reinstate: 'Reinstated',
+	'approve-insurance': 'New insurance approved',
+	pause: 'Quoting paused',
+	'insurance-updated': 'Insurance details changed'
+};
+
+/** How an installer works, or where a job is fitted. */
+export const WORK_MODE_LABELS: Record<'mobile' | 'workshop', string> = {
+	mobile: 'Mobile (at the owner’s place)',
+	workshop: 'At the installer’s workshop'
+};

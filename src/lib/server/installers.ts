@@ -1,0 +1,334 @@
+/**
+ * Installers' own records: the application, insurance details, service area, the status page,
+ * submitting for vetting and the public profile.
+ */
+import { and, count, desc, eq, inArray } from 'drizzle-orm';
+import {
+	missingParts,
+	nextStatus,
+	stageOf,
+	type DocumentViewer,
+	type VettingStage
+} from '$lib/vetting';
+import { db } from './db';
+import { installerHours, installerProfile, vettingEvent, type InstallerProfile } from './db/schema';
+import { documentKinds, listInstallerDocuments } from './documents';
+import { queueEmail } from './mail';
+import {
+	lockProfile,
+	mailData,
+	problem,
+	recordEvent,
+	type VettingOutcome,
+	type VettingProblem
+} from './vetting';
+
+/** A suburb and the point the installer works from, as the geocoder or the map gave it. */
+export interface BasePlace {
+	suburb: string;
+	postcode: string;
+	latitude: number;
+	longitude: number;
+}
+
+// ——— Installer side ———
+
+/** The application as the installer edits it. */
+export interface ApplicationInput {
+	businessName: string;
+	contactName: string;
+	phone: string;
+	abn: string;
+	yearsInTrade: number;
+	skills: string[];
+	offersMobile: boolean;
+	offersWorkshop: boolean;
+	workshopAddress: string | null;
+}
+
+/** The installer's profile row, or null before the first save. */
+export async function getInstallerProfile(installerId: string): Promise<InstallerProfile | null> {
+	const [row] = await db
+		.select()
+		.from(installerProfile)
+		.where(eq(installerProfile.userId, installerId));
+	return row ?? null;
+}
+
+/** Stages in which the installer may change the application itself. */
+const EDITABLE_STAGES: readonly VettingStage[] = ['draft', 'waiting_on_installer', 'approved'];
+
+/**
+ * Creates the profile on the first save, updates it afterwards. `place` is the geocoded base
+ * suburb: required on the first save (the row needs a point), optional later (only when the
+ * installer changed the suburb). Once approved, the business name and ABN are what the admin
+ * checked and stay as they are.
+ */
+export async function saveApplication(
+	installerId: string,
+	input: ApplicationInput,
+	place: BasePlace | null
+): Promise<'saved' | 'locked' | 'needs-place'> {
+	return db.transaction(async (tx) => {
+		const [existing] = await tx
+			.select({ status: installerProfile.vettingStatus, submittedAt: installerProfile.submittedAt })
+			.from(installerProfile)
+			.where(eq(installerProfile.userId, installerId))
+			.for('update');
+		const fields = {
+			contactName: input.contactName,
+			phone: input.phone,
+			yearsInTrade: input.yearsInTrade,
+			skills: input.skills,
+			offersMobile: input.offersMobile,
+			offersWorkshop: input.offersWorkshop,
+			workshopAddress: input.offersWorkshop ? input.workshopAddress : null,
+			...(place
+				? {
+						suburb: place.suburb,
+						postcode: place.postcode,
+						latitude: place.latitude,
+						longitude: place.longitude
+					}
+				: {})
+		};
+		if (!existing) {
+			if (!place) return 'needs-place';
+			await tx.insert(installerProfile).values({
+				userId: installerId,
+				businessName: input.businessName,
+				abn: input.abn,
+				...fields,
+				suburb: place.suburb,
+				postcode: place.postcode,
+				latitude: place.latitude,
+				longitude: place.longitude
+			});
+			return 'saved';
+		}
+		const stage = stageOf({ vettingStatus: existing.status, submittedAt: existing.submittedAt });
+		if (!EDITABLE_STAGES.includes(stage)) return 'locked';
+		await tx
+			.update(installerProfile)
+			.set({
+				...fields,
+				...(stage === 'approved' ? {} : { businessName: input.businessName, abn: input.abn }),
+				updatedAt: new Date()
+			})
+			.where(eq(installerProfile.userId, installerId));
+		return 'saved';
+	});
+}
+
+/** Insurance details as typed from the certificate. */
+export interface InsuranceInput {
+	insurer: string;
+	policyNumber: string;
+	coverCents: number;
+	expiresOn: string;
+}
+
+/**
+ * Saves the insurance details. For a vetted installer a change pauses quoting until an admin
+ * approves the new certificate: typed details alone must never extend cover nobody has seen.
+ */
+export async function saveInsuranceDetails(
+	installerId: string,
+	input: InsuranceInput
+): Promise<{ ok: true; paused: boolean; emailIds: string[] } | VettingProblem> {
+	return db.transaction(async (tx) => {
+		const row = await lockProfile(tx, installerId);
+		if (!row) return problem(404, 'Save your application details first.');
+		const { profile } = row;
+		const stage = stageOf(profile);
+		if (stage === 'applied' || stage === 'rejected') {
+			return problem(409, 'Your application is with an admin; it cannot be changed just now.');
+		}
+		const changed =
+			profile.insurer !== input.insurer ||
+			profile.policyNumber !== input.policyNumber ||
+			profile.coverCents !== input.coverCents ||
+			profile.insuranceExpiresOn !== input.expiresOn;
+		const pauseNow = changed && stage === 'approved' && profile.pausedReason === null;
+		const pausedReason = 'Your new insurance details are waiting for an admin to check them.';
+		await tx
+			.update(installerProfile)
+			.set({
+				insurer: input.insurer,
+				policyNumber: input.policyNumber,
+				coverCents: input.coverCents,
+				insuranceExpiresOn: input.expiresOn,
+				...(pauseNow ? { pausedReason } : {}),
+				updatedAt: new Date()
+			})
+			.where(eq(installerProfile.userId, installerId));
+		const emailIds: string[] = [];
+		if (changed && stage === 'approved') {
+			await recordEvent(tx, {
+				installerId,
+				actorId: installerId,
+				action: 'insurance-updated',
+				fromStatus: profile.vettingStatus,
+				toStatus: profile.vettingStatus,
+				reason: `New expiry ${input.expiresOn}`
+			});
+		}
+		if (pauseNow) {
+			emailIds.push(
+				await queueEmail(tx, row.email, {
+					template: 'insurance-paused',
+					data: { ...mailData(row), reason: pausedReason }
+				})
+			);
+		}
+		return { ok: true, paused: pauseNow, emailIds };
+	});
+}
+
+/** Service area as set on the map. */
+export interface ServiceAreaInput {
+	latitude: number;
+	longitude: number;
+	serviceRadiusKm: number;
+	freeRadiusKm: number;
+	travelFeeCentsPerKm: number;
+	/** The suburb around the new point, when the geocoder knew one. */
+	place: BasePlace | null;
+}
+
+/** Saves the base point, radius and travel fee; false when there is no profile yet. */
+export async function saveServiceArea(
+	installerId: string,
+	input: ServiceAreaInput
+): Promise<boolean> {
+	const rows = await db
+		.update(installerProfile)
+		.set({
+			latitude: input.latitude,
+			longitude: input.longitude,
+			serviceRadiusKm: input.serviceRadiusKm,
+			freeRadiusKm: Math.min(input.freeRadiusKm, input.serviceRadiusKm),
+			travelFeeCentsPerKm: input.travelFeeCentsPerKm,
+			...(input.place ? { suburb: input.place.suburb, postcode: input.place.postcode } : {}),
+			updatedAt: new Date()
+		})
+		.where(eq(installerProfile.userId, installerId))
+		.returning({ id: installerProfile.userId });
+	return rows.length > 0;
+}
+
+/** Everything the installer's status page shows. */
+export async function getApplicationStatus(installerId: string) {
+	const profile = await getInstallerProfile(installerId);
+	const [kinds, [hours], [lastMessage]] = await Promise.all([
+		documentKinds(db, installerId),
+		db
+			.select({ n: count() })
+			.from(installerHours)
+			.where(eq(installerHours.installerId, installerId)),
+		profile
+			? db
+					.select({
+						action: vettingEvent.action,
+						reason: vettingEvent.reason,
+						at: vettingEvent.createdAt
+					})
+					.from(vettingEvent)
+					.where(
+						and(
+							eq(vettingEvent.installerId, installerId),
+							inArray(vettingEvent.action, ['request-info', 'reject', 'suspend'])
+						)
+					)
+					.orderBy(desc(vettingEvent.createdAt))
+					.limit(1)
+			: []
+	]);
+	const missing = missingParts({
+		hasProfile: profile !== null,
+		abn: profile?.abn ?? null,
+		phone: profile?.phone ?? null,
+		skills: profile?.skills ?? [],
+		insurer: profile?.insurer ?? null,
+		insuranceExpiresOn: profile?.insuranceExpiresOn ?? null,
+		coverCents: profile?.coverCents ?? null,
+		documentKinds: kinds,
+		hoursCount: hours?.n ?? 0
+	});
+	return {
+		profile,
+		stage: profile ? stageOf(profile) : ('draft' as const),
+		missing,
+		lastMessage: lastMessage ?? null
+	};
+}
+
+/**
+ * Sends the application (first time, or again after an admin asked for more). Refuses while
+ * anything is missing or when the application is not the installer's to send.
+ */
+export async function submitApplication(installerId: string): Promise<VettingOutcome> {
+	const status = await getApplicationStatus(installerId);
+	if (!status.profile) return problem(404, 'Fill in the application first.');
+	if (status.missing.length > 0) {
+		return problem(400, `Still missing: ${status.missing.map((m) => m.what).join('; ')}.`);
+	}
+	return db.transaction(async (tx) => {
+		const row = await lockProfile(tx, installerId);
+		if (!row) return problem(404, 'Fill in the application first.');
+		const stage = stageOf(row.profile);
+		const to = nextStatus(stage, 'submit');
+		if (!to) return problem(409, 'This application has already been sent.');
+		await tx
+			.update(installerProfile)
+			.set({ vettingStatus: to, submittedAt: new Date(), updatedAt: new Date() })
+			.where(eq(installerProfile.userId, installerId));
+		await recordEvent(tx, {
+			installerId,
+			actorId: installerId,
+			action: 'submit',
+			fromStatus: stage === 'draft' ? null : stage,
+			toStatus: to
+		});
+		const emailId = await queueEmail(tx, row.email, {
+			template: 'vetting-received',
+			data: mailData(row)
+		});
+		return { ok: true, emailIds: [emailId] };
+	});
+}
+
+// ——— Public profile ———
+
+/**
+ * What anyone may see of an installer: never the base point, address, contact details or
+ * documents other than gallery photos. Only approved installers have a public profile; the
+ * installer themself and admins may preview it before then.
+ */
+export async function getPublicProfile(installerId: string, viewer: DocumentViewer | null) {
+	const [row] = await db
+		.select({
+			id: installerProfile.userId,
+			businessName: installerProfile.businessName,
+			suburb: installerProfile.suburb,
+			skills: installerProfile.skills,
+			offersMobile: installerProfile.offersMobile,
+			offersWorkshop: installerProfile.offersWorkshop,
+			serviceRadiusKm: installerProfile.serviceRadiusKm,
+			yearsInTrade: installerProfile.yearsInTrade,
+			vettingStatus: installerProfile.vettingStatus,
+			pausedReason: installerProfile.pausedReason
+		})
+		.from(installerProfile)
+		.where(eq(installerProfile.userId, installerId));
+	if (!row) return null;
+	const mayPreview = viewer?.role === 'admin' || viewer?.id === installerId;
+	if (row.vettingStatus !== 'approved' && !mayPreview) return null;
+	const gallery = await listInstallerDocuments(installerId, ['gallery']);
+	const { pausedReason, vettingStatus, ...shown } = row;
+	return {
+		...shown,
+		vetted: vettingStatus === 'approved' && pausedReason === null,
+		gallery: gallery.map((g) => ({ id: g.id, name: g.originalName }))
+	};
+}

@@ -1,0 +1,177 @@
+/**
+ * The question-and-answer thread between a job's owner and one installer. Contact details are
+ * masked until the job is booked with that installer.
+ */
+import { and, asc, eq, inArray } from 'drizzle-orm';
+import { z } from 'zod';
+import { env } from '$env/dynamic/private';
+import { maskContactDetails, type MaskedKind } from '$lib/masking';
+import { matchProblem, reachOf } from '$lib/matching';
+import { db, type Tx } from './db';
+import { booking, installerProfile, job, jobMessage, quote, user } from './db/schema';
+import { queueEmail } from './mail';
+import { refuse, type Refusal } from './refusal';
+import { jobReach } from './matching';
+
+const uuid = z.uuid();
+
+const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
+
+/** Who may talk in a thread, and whether contact details are still masked in it. */
+async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: string) {
+	const [row] = await tx
+		.select({
+			ownerId: job.ownerId,
+			ownerEmail: user.email,
+			title: job.title,
+			status: job.status,
+			latitude: job.latitude,
+			longitude: job.longitude,
+			locationMode: job.locationMode,
+			bodyStyle: job.bodyStyle,
+			cameras: job.cameras,
+			power: job.power
+		})
+		.from(job)
+		.innerJoin(user, eq(user.id, job.ownerId))
+		.where(eq(job.id, jobId));
+	if (!row) return null;
+	const [profile] = await tx
+		.select({
+			businessName: installerProfile.businessName,
+			email: user.email,
+			profile: installerProfile
+		})
+		.from(installerProfile)
+		.innerJoin(user, eq(user.id, installerProfile.userId))
+		.where(eq(installerProfile.userId, installerId));
+	if (!profile) return null;
+	const [hasQuote] = await tx
+		.select({ id: quote.id })
+		.from(quote)
+		.where(and(eq(quote.jobId, jobId), eq(quote.installerId, installerId)));
+	const [bookedWith] = await tx
+		.select({ id: booking.id })
+		.from(booking)
+		.where(
+			and(
+				eq(booking.jobId, jobId),
+				eq(booking.installerId, installerId),
+				inArray(booking.status, ['awaiting_payment', 'confirmed'])
+			)
+		);
+	const reach = jobReach(row);
+	const p = profile.profile;
+	const offered =
+		row.status === 'collecting_quotes' &&
+		reach !== null &&
+		p.vettingStatus === 'approved' &&
+		p.pausedReason === null &&
+		matchProblem(reach, reachOf(p)) === null;
+	return {
+		...row,
+		businessName: profile.businessName,
+		installerEmail: profile.email,
+		installerMayWrite: offered || Boolean(hasQuote) || Boolean(bookedWith),
+		hasQuote: Boolean(hasQuote),
+		booked: Boolean(bookedWith)
+	};
+}
+
+export type MessageOutcome = { ok: true; masked: MaskedKind[]; emailIds: string[] } | Refusal;
+
+/**
+ * Adds a message to the thread between a job's owner and one installer, masking phone numbers,
+ * e-mail addresses and links (see CONTACT_PATTERNS) unless the job is booked with that installer,
+ * and e-mails the other side.
+ * @param author who writes: the job's owner or the installer of the thread
+ */
+export async function postJobMessage(
+	jobId: string,
+	installerId: string,
+	author: { id: string; role: 'owner' | 'installer' | 'admin' },
+	body: string
+): Promise<MessageOutcome> {
+	if (!uuid.safeParse(jobId).success) return refuse(404, 'There is no such job.');
+	const text = body.trim();
+	if (text.length === 0 || text.length > 2000) {
+		return refuse(400, 'Write a message of 1 to 2,000 characters.');
+	}
+	return db.transaction(async (tx) => {
+		const access = await threadAccess(tx, jobId, installerId);
+		if (!access) return refuse(404, 'There is no such job.');
+		const isOwner = author.role === 'owner' && author.id === access.ownerId;
+		const isInstaller = author.role === 'installer' && author.id === installerId;
+		if (!isOwner && !isInstaller) return refuse(404, 'There is no such job.');
+		if (isInstaller && !access.installerMayWrite) {
+			return refuse(403, 'This job is no longer open to you.');
+		}
+		if (isOwner && !access.hasQuote) {
+			const [asked] = await tx
+				.select({ id: jobMessage.id })
+				.from(jobMessage)
+				.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
+				.limit(1);
+			if (!asked) return refuse(404, 'This installer has not quoted or asked anything.');
+		}
+		const masked = access.booked ? { text, masked: [] as MaskedKind[] } : maskContactDetails(text);
+		await tx.insert(jobMessage).values({
+			jobId,
+			installerId,
+			authorId: author.id,
+			body: masked.text,
+			masked: masked.masked
+		});
+		const title = access.title ?? 'your dash camera job';
+		const emailId = isOwner
+			? await queueEmail(tx, access.installerEmail, {
+					template: 'job-message',
+					data: {
+						heading: `The owner of the ${title} replied`,
+						body: masked.text,
+						url: `${origin()}/installer/jobs/${jobId}#questions`
+					}
+				})
+			: await queueEmail(tx, access.ownerEmail, {
+					template: 'job-message',
+					data: {
+						heading: `${access.businessName} wrote about your ${title}`,
+						body: masked.text,
+						url: `${origin()}/owner/jobs/${jobId}/quotes/${installerId}`
+					}
+				});
+		return { ok: true, masked: masked.masked, emailIds: [emailId] };
+	});
+}
+
+/** The thread between a job's owner and one installer, oldest first. */
+export function listJobMessages(jobId: string, installerId: string) {
+	return db
+		.select({
+			id: jobMessage.id,
+			authorId: jobMessage.authorId,
+			body: jobMessage.body,
+			masked: jobMessage.masked,
+			createdAt: jobMessage.createdAt
+		})
+		.from(jobMessage)
+		.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
+		.orderBy(asc(jobMessage.createdAt));
+}
+
+/** Installers who asked about an owner's job without quoting (their threads have no quote row). */
+export async function listAskingInstallers(jobId: string) {
+	const rows = await db
+		.selectDistinct({
+			installerId: jobMessage.installerId,
+			businessName: installerProfile.businessName
+		})
+		.from(jobMessage)
+		.innerJoin(installerProfile, eq(installerProfile.userId, jobMessage.installerId))
+		.where(eq(jobMessage.jobId, jobId));
+	const quoted = await db
+		.select({ installerId: quote.installerId })
+		.from(quote)
+		.where(eq(quote.jobId, jobId));
+	return rows.filter((r) => !quoted.some((q) => q.installerId === r.installerId));
+}
