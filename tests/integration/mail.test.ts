@@ -3,7 +3,8 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../local-fakes/smtp';
 import { db } from '$lib/server/db';
 import { emailOutbox } from '$lib/server/db/schema';
-import { deliverEmail, listStrandedEmails, queueEmail } from '$lib/server/mail';
+import { appUrl } from '$lib/server/app-url';
+import { deliverEmail, listStrandedEmails, queueEmail, withMail } from '$lib/server/mail';
 
 let fake: MailFake;
 
@@ -81,5 +82,58 @@ describe('outbox delivery', () => {
 		const ids = await listStrandedEmails(5 * 60_000);
 		expect(ids).toContain(stranded);
 		expect(ids).not.toContain(sent);
+	});
+});
+
+describe('withMail', () => {
+	const resetMail = () => ({
+		template: 'reset-password' as const,
+		data: { displayName: 'Kit', url: 'http://tapline.test/reset-password?token=abc' }
+	});
+	const rowsFor = (to: string) =>
+		db.select().from(emailOutbox).where(eq(emailOutbox.toAddress, to));
+
+	it('writes the message with the change and runs after-commit work once committed', async () => {
+		const after: string[] = [];
+		const result = await withMail(async (_tx, mail) => {
+			await mail.send('committed@example.test', resetMail());
+			mail.afterCommit(async () => {
+				after.push('ran');
+			});
+			// Still inside the transaction: the after-commit task has not run yet.
+			expect(after).toEqual([]);
+			return 'done';
+		});
+		expect(result).toBe('done');
+		expect(after).toEqual(['ran']);
+		expect(await rowsFor('committed@example.test')).toHaveLength(1);
+	});
+
+	it('leaves no message and runs nothing when the change rolls back', async () => {
+		const after: string[] = [];
+		await expect(
+			withMail(async (_tx, mail) => {
+				await mail.send('rolled-back@example.test', resetMail());
+				mail.afterCommit(async () => {
+					after.push('ran');
+				});
+				throw new Error('the change failed');
+			})
+		).rejects.toThrow('the change failed');
+		expect(after).toEqual([]);
+		expect(await rowsFor('rolled-back@example.test')).toHaveLength(0);
+	});
+});
+
+describe('appUrl', () => {
+	it('builds links from the configured origin, not from whoever asked', () => {
+		const before = process.env.ORIGIN;
+		process.env.ORIGIN = 'https://tapline.example/';
+		try {
+			expect(appUrl('/installer/jobs')).toBe('https://tapline.example/installer/jobs');
+			expect(appUrl('owner')).toBe('https://tapline.example/owner');
+		} finally {
+			process.env.ORIGIN = before;
+		}
 	});
 });

@@ -227,17 +227,22 @@ describe("owner's quote e-mails", () => {
 		const other = await makeInstaller({ base: ADELAIDE });
 		await submitQuote(installer.id, j.id, goodQuote(parts));
 		await submitQuote(other.id, j.id, goodQuote(parts, { labourCents: 21_000 }));
-		const ids = await sendOwnerQuoteDigest(j.id);
-		expect(ids).toHaveLength(1);
-		const [mail] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, ids[0]!));
+		const digests = () =>
+			db
+				.select()
+				.from(emailOutbox)
+				.where(eq(emailOutbox.template, 'quotes-received'))
+				.orderBy(emailOutbox.createdAt);
+		const before = (await digests()).length;
+		expect(await sendOwnerQuoteDigest(j.id)).toBe(true);
+		const [mail] = (await digests()).slice(before);
 		expect(mail?.subject).toBe('2 quotes for your 2018 Demo Hatch');
-		expect(mail?.template).toBe('quotes-received');
-		expect(await sendOwnerQuoteDigest(j.id)).toEqual([]);
+		expect(await sendOwnerQuoteDigest(j.id)).toBe(false);
+		expect((await digests()).length).toBe(before + 1);
 		// A revision after the e-mail is news again.
 		await submitQuote(other.id, j.id, goodQuote(parts, { labourCents: 20_000 }));
-		const again = await sendOwnerQuoteDigest(j.id, new Date(Date.now() + 1000));
-		expect(again).toHaveLength(1);
-		const [revised] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, again[0]!));
+		expect(await sendOwnerQuoteDigest(j.id, new Date(Date.now() + 1000))).toBe(true);
+		const revised = (await digests()).at(-1);
 		expect(revised?.text).toContain('(revised)');
 	});
 });

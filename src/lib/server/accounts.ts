@@ -1,13 +1,14 @@
 /**
  * Accounts: sign-up, sign-in checks, e-mail verification, password reset, admin invitations.
- * Every change that sends mail writes the message to the outbox in the same transaction.
+ * Every change that sends mail queues it in the same transaction (`withMail`).
  */
 import { createHash, randomBytes } from 'node:crypto';
 import { and, eq, gt, isNull } from 'drizzle-orm';
 import { endAllSessions } from './auth';
 import { db, type Tx } from './db';
 import { emailToken, user, type Role, type User } from './db/schema';
-import { queueEmail } from './mail';
+import { appUrl } from './app-url';
+import { withMail } from './mail';
 import { hashPassword, verifyPassword } from './password';
 
 const VERIFY_TTL_MS = 48 * 3600_000;
@@ -62,12 +63,11 @@ export interface NewAccount {
  * Returns `'email-taken'` when the address already has an account.
  */
 export async function createAccount(
-	input: NewAccount,
-	origin: string
-): Promise<{ user: AccountSummary; emailIds: string[] } | 'email-taken'> {
+	input: NewAccount
+): Promise<{ user: AccountSummary } | 'email-taken'> {
 	const email = normaliseEmail(input.email);
 	const passwordHash = await hashPassword(input.password);
-	return db.transaction(async (tx) => {
+	return withMail(async (tx, mail) => {
 		const [created] = await tx
 			.insert(user)
 			.values({
@@ -86,11 +86,11 @@ export async function createAccount(
 			});
 		if (!created) return 'email-taken' as const;
 		const token = await issueToken(tx, created.id, 'verify-email', VERIFY_TTL_MS);
-		const emailId = await queueEmail(tx, email, {
+		await mail.send(email, {
 			template: 'verify-email',
-			data: { displayName: created.displayName, url: `${origin}/verify-email?token=${token}` }
+			data: { displayName: created.displayName, url: appUrl(`/verify-email?token=${token}`) }
 		});
-		return { user: created, emailIds: [emailId] };
+		return { user: created };
 	});
 }
 
@@ -133,21 +133,20 @@ export async function verifyEmailToken(token: string): Promise<boolean> {
 	});
 }
 
-/** Queues a fresh verification e-mail for an unverified account. */
-export async function resendVerification(userId: string, origin: string): Promise<string[]> {
-	return db.transaction(async (tx) => {
+/** Queues a fresh verification e-mail for an unverified account; false when already verified. */
+export async function resendVerification(userId: string): Promise<boolean> {
+	return withMail(async (tx, mail) => {
 		const [found] = await tx
 			.select({ email: user.email, displayName: user.displayName, verified: user.emailVerifiedAt })
 			.from(user)
 			.where(eq(user.id, userId));
-		if (!found || found.verified) return [];
+		if (!found || found.verified) return false;
 		const token = await issueToken(tx, userId, 'verify-email', VERIFY_TTL_MS);
-		return [
-			await queueEmail(tx, found.email, {
-				template: 'verify-email',
-				data: { displayName: found.displayName, url: `${origin}/verify-email?token=${token}` }
-			})
-		];
+		await mail.send(found.email, {
+			template: 'verify-email',
+			data: { displayName: found.displayName, url: appUrl(`/verify-email?token=${token}`) }
+		});
+		return true;
 	});
 }
 
@@ -155,20 +154,18 @@ export async function resendVerification(userId: string, origin: string): Promis
  * Queues a reset link when the address has an account. Says nothing either way to the caller's
  * visitor, so the form cannot be used to find out who has an account.
  */
-export async function requestPasswordReset(email: string, origin: string): Promise<string[]> {
-	return db.transaction(async (tx) => {
+export async function requestPasswordReset(email: string): Promise<void> {
+	await withMail(async (tx, mail) => {
 		const [found] = await tx
 			.select({ id: user.id, email: user.email, displayName: user.displayName })
 			.from(user)
 			.where(eq(user.email, normaliseEmail(email)));
-		if (!found) return [];
+		if (!found) return;
 		const token = await issueToken(tx, found.id, 'reset-password', RESET_TTL_MS);
-		return [
-			await queueEmail(tx, found.email, {
-				template: 'reset-password',
-				data: { displayName: found.displayName, url: `${origin}/reset-password?token=${token}` }
-			})
-		];
+		await mail.send(found.email, {
+			template: 'reset-password',
+			data: { displayName: found.displayName, url: appUrl(`/reset-password?token=${token}`) }
+		});
 	});
 }
 
@@ -193,12 +190,11 @@ export async function resetPassword(token: string, newPassword: string): Promise
  */
 export async function createAdminAccount(
 	invitedBy: AccountSummary,
-	input: { email: string; displayName: string },
-	origin: string
-): Promise<{ user: AccountSummary; emailIds: string[] } | 'email-taken'> {
+	input: { email: string; displayName: string }
+): Promise<{ user: AccountSummary } | 'email-taken'> {
 	if (invitedBy.role !== 'admin') throw new Error('Only an admin can create an admin');
 	const passwordHash = await hashPassword(randomBytes(24).toString('base64url'));
-	return db.transaction(async (tx) => {
+	return withMail(async (tx, mail) => {
 		const [created] = await tx
 			.insert(user)
 			.values({
@@ -217,15 +213,15 @@ export async function createAdminAccount(
 			});
 		if (!created) return 'email-taken' as const;
 		const token = await issueToken(tx, created.id, 'reset-password', RESET_TTL_MS);
-		const emailId = await queueEmail(tx, created.email, {
+		await mail.send(created.email, {
 			template: 'admin-invite',
 			data: {
 				displayName: created.displayName,
 				invitedBy: invitedBy.displayName,
-				url: `${origin}/reset-password?token=${token}`
+				url: appUrl(`/reset-password?token=${token}`)
 			}
 		});
-		return { user: created, emailIds: [emailId] };
+		return { user: created };
 	});
 }
 

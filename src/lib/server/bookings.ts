@@ -8,21 +8,20 @@
  */
 import { and, eq, inArray, lte, ne, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
-import { env } from '$env/dynamic/private';
 import { formatSlot } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, quote, user } from './db/schema';
-import { queueEmail } from './mail';
+import { appUrl } from './app-url';
+import { withMail, type Mail } from './mail';
 import { refuse, type Refusal } from './refusal';
 
 /** How long a provisional booking holds the installer's slot while the owner pays (Tapline's choice). */
 export const HOLD_MINUTES = 30;
 
 const uuid = z.uuid();
-const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
 
-export type BookingOutcome = { ok: true; bookingId: string; emailIds: string[] } | Refusal;
+export type BookingOutcome = { ok: true; bookingId: string } | Refusal;
 
 /** The PostgreSQL error code of a failed query, looking through Drizzle's wrapper. */
 function pgCode(err: unknown): string | undefined {
@@ -51,7 +50,7 @@ export async function bookQuote(
 		return refuse(404, 'There is no such quote on your jobs.');
 	}
 	try {
-		return await db.transaction(async (tx) => {
+		return await withMail(async (tx, mail) => {
 			const [locked] = await tx
 				.select()
 				.from(job)
@@ -59,8 +58,8 @@ export async function bookQuote(
 				.for('update');
 			if (!locked) return refuse(404, 'There is no such quote on your jobs.');
 			// An expired hold on this very job must not keep it booked.
-			const lapsedIds = await lapseHolds(tx, eq(booking.jobId, jobId), now);
-			const status = lapsedIds.length > 0 ? 'collecting_quotes' : locked.status;
+			const lapsedHere = await lapseHolds(tx, mail, eq(booking.jobId, jobId), now);
+			const status = lapsedHere > 0 ? 'collecting_quotes' : locked.status;
 			if (status === 'booked') {
 				return refuse(
 					409,
@@ -98,9 +97,7 @@ export async function bookQuote(
 				return refuse(409, 'That time has passed; choose another.');
 			}
 			// Free the installer's own expired holds, so a lapsed hold never blocks a real booking.
-			lapsedIds.push(
-				...(await lapseHolds(tx, eq(booking.installerId, chosen.quote.installerId), now))
-			);
+			await lapseHolds(tx, mail, eq(booking.installerId, chosen.quote.installerId), now);
 			const holdExpiresAt = new Date(now.getTime() + HOLD_MINUTES * 60_000);
 			const [made] = await tx
 				.insert(booking)
@@ -128,7 +125,6 @@ export async function bookQuote(
 				.where(and(eq(quote.jobId, jobId), ne(quote.id, quoteId), eq(quote.status, 'live')))
 				.returning({ installerId: quote.installerId });
 			const title = locked.title ?? 'dash camera job';
-			const emailIds = [...lapsedIds];
 			if (declined.length > 0) {
 				const people = await tx
 					.select({ email: user.email, businessName: installerProfile.businessName })
@@ -141,27 +137,23 @@ export async function bookQuote(
 						)
 					);
 				for (const person of people) {
-					emailIds.push(
-						await queueEmail(tx, person.email, {
-							template: 'quote-declined',
-							data: { businessName: person.businessName, title, url: `${origin()}/installer/jobs` }
-						})
-					);
+					await mail.send(person.email, {
+						template: 'quote-declined',
+						data: { businessName: person.businessName, title, url: appUrl('/installer/jobs') }
+					});
 				}
 			}
-			emailIds.push(
-				await queueEmail(tx, chosen.email, {
-					template: 'booking-provisional',
-					data: {
-						businessName: chosen.businessName,
-						title,
-						slot: formatSlot(slot, chosen.timeZone),
-						holdUntil: formatInZone(holdExpiresAt, chosen.timeZone, 'h:mm a, EEE d MMM'),
-						url: `${origin()}/installer/jobs/${jobId}`
-					}
-				})
-			);
-			return { ok: true, bookingId: made.id, emailIds };
+			await mail.send(chosen.email, {
+				template: 'booking-provisional',
+				data: {
+					businessName: chosen.businessName,
+					title,
+					slot: formatSlot(slot, chosen.timeZone),
+					holdUntil: formatInZone(holdExpiresAt, chosen.timeZone, 'h:mm a, EEE d MMM'),
+					url: appUrl(`/installer/jobs/${jobId}`)
+				}
+			});
+			return { ok: true, bookingId: made.id };
 		});
 	} catch (err) {
 		const code = pgCode(err);
@@ -186,9 +178,15 @@ export async function bookQuote(
  * 'lapsed' (which frees the slot: the exclusion constraint only counts live bookings), the job
  * collects quotes again and the accepted quote is live again. Quotes declined at booking stay
  * declined; those installers may send a fresh revision.
- * @returns ids of the e-mails queued (one to each installer whose slot was freed)
+ * E-mails each installer whose slot was freed.
+ * @returns how many bookings lapsed
  */
-export async function lapseHolds(tx: Tx, scope: SQL | undefined, now: Date): Promise<string[]> {
+export async function lapseHolds(
+	tx: Tx,
+	mail: Mail,
+	scope: SQL | undefined,
+	now: Date
+): Promise<number> {
 	const lapsed = await tx
 		.update(booking)
 		.set({ status: 'lapsed' })
@@ -200,7 +198,6 @@ export async function lapseHolds(tx: Tx, scope: SQL | undefined, now: Date): Pro
 			slotStart: booking.slotStart,
 			slotEnd: booking.slotEnd
 		});
-	const emailIds: string[] = [];
 	for (const b of lapsed) {
 		const [j] = await tx
 			.update(job)
@@ -221,34 +218,32 @@ export async function lapseHolds(tx: Tx, scope: SQL | undefined, now: Date): Pro
 			.innerJoin(user, eq(user.id, installerProfile.userId))
 			.where(eq(installerProfile.userId, b.installerId));
 		if (person) {
-			emailIds.push(
-				await queueEmail(tx, person.email, {
-					template: 'booking-lapsed',
-					data: {
-						businessName: person.businessName,
-						title: j?.title ?? 'dash camera job',
-						slot: formatSlot(
-							{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
-							person.timeZone
-						)
-					}
-				})
-			);
+			await mail.send(person.email, {
+				template: 'booking-lapsed',
+				data: {
+					businessName: person.businessName,
+					title: j?.title ?? 'dash camera job',
+					slot: formatSlot(
+						{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
+						person.timeZone
+					)
+				}
+			});
 		}
 	}
-	return emailIds;
+	return lapsed.length;
 }
 
 /**
- * Lapses every expired hold, or only one job's (the on-read check of the owner's pages).
- * @returns ids of the e-mails to deliver
+ * Lapses every expired hold, or only one job's.
+ * @returns how many bookings lapsed
  */
 export function lapseExpiredHolds(options: { jobId?: string } = {}, now = new Date()) {
 	if (options.jobId !== undefined && !uuid.safeParse(options.jobId).success) {
-		return Promise.resolve([]);
+		return Promise.resolve(0);
 	}
-	return db.transaction((tx) =>
-		lapseHolds(tx, options.jobId ? eq(booking.jobId, options.jobId) : undefined, now)
+	return withMail((tx, mail) =>
+		lapseHolds(tx, mail, options.jobId ? eq(booking.jobId, options.jobId) : undefined, now)
 	);
 }
 

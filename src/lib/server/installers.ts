@@ -13,7 +13,7 @@ import {
 import { db } from './db';
 import { installerHours, installerProfile, vettingEvent, type InstallerProfile } from './db/schema';
 import { documentKinds, listInstallerDocuments } from './documents';
-import { queueEmail } from './mail';
+import { withMail } from './mail';
 import {
 	lockProfile,
 	mailData,
@@ -135,8 +135,8 @@ export interface InsuranceInput {
 export async function saveInsuranceDetails(
 	installerId: string,
 	input: InsuranceInput
-): Promise<{ ok: true; paused: boolean; emailIds: string[] } | VettingProblem> {
-	return db.transaction(async (tx) => {
+): Promise<{ ok: true; paused: boolean } | VettingProblem> {
+	return withMail(async (tx, mail) => {
 		const row = await lockProfile(tx, installerId);
 		if (!row) return problem(404, 'Save your application details first.');
 		const { profile } = row;
@@ -162,7 +162,6 @@ export async function saveInsuranceDetails(
 				updatedAt: new Date()
 			})
 			.where(eq(installerProfile.userId, installerId));
-		const emailIds: string[] = [];
 		if (changed && stage === 'approved') {
 			await recordEvent(tx, {
 				installerId,
@@ -174,14 +173,12 @@ export async function saveInsuranceDetails(
 			});
 		}
 		if (pauseNow) {
-			emailIds.push(
-				await queueEmail(tx, row.email, {
-					template: 'insurance-paused',
-					data: { ...mailData(row), reason: pausedReason }
-				})
-			);
+			await mail.send(row.email, {
+				template: 'insurance-paused',
+				data: { ...mailData(row), reason: pausedReason }
+			});
 		}
-		return { ok: true, paused: pauseNow, emailIds };
+		return { ok: true, paused: pauseNow };
 	});
 }
 
@@ -273,7 +270,7 @@ export async function submitApplication(installerId: string): Promise<VettingOut
 	if (status.missing.length > 0) {
 		return problem(400, `Still missing: ${status.missing.map((m) => m.what).join('; ')}.`);
 	}
-	return db.transaction(async (tx) => {
+	return withMail(async (tx, mail) => {
 		const row = await lockProfile(tx, installerId);
 		if (!row) return problem(404, 'Fill in the application first.');
 		const stage = stageOf(row.profile);
@@ -290,11 +287,11 @@ export async function submitApplication(installerId: string): Promise<VettingOut
 			fromStatus: stage === 'draft' ? null : stage,
 			toStatus: to
 		});
-		const emailId = await queueEmail(tx, row.email, {
+		await mail.send(row.email, {
 			template: 'vetting-received',
 			data: mailData(row)
 		});
-		return { ok: true, emailIds: [emailId] };
+		return { ok: true };
 	});
 }
 

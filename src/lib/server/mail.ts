@@ -1,6 +1,8 @@
 /**
- * Outgoing e-mail. Messages are written to the `email_outbox` table inside the caller's transaction
- * and delivered by the background worker (see `queue.ts`), which retries with back-off. Delivery
+ * Outgoing e-mail. A change and the e-mails it causes share one transaction: `withMail` opens it,
+ * hands the work a `Mail` whose `send` writes the message to the `email_outbox` table, and after
+ * commit asks the background worker (see `queue.ts`) to deliver, with retries and back-off. Nothing
+ * is left for callers to remember; a lost request is caught by the sweeper. Delivery
  * locks the row and marks it sent in the same transaction, so two workers never both send it; the
  * Message-ID is derived from the row id, so a rare resend after a crash mid-send is recognisable as
  * the same message by the receiving server.
@@ -8,6 +10,7 @@
 import { and, eq, isNull, lt, or, sql } from 'drizzle-orm';
 import nodemailer, { type Transporter } from 'nodemailer';
 import { env } from '$env/dynamic/private';
+import { requestEmailDelivery } from './boss';
 import { db, type Tx } from './db';
 import { emailOutbox } from './db/schema';
 import { renderEmail, type EmailTemplate } from './mail-templates';
@@ -27,6 +30,36 @@ function getTransport(): Transporter {
 		connectionTimeout: 10_000
 	});
 	return transport;
+}
+
+/** What a change may do besides its own writes: queue e-mail, and ask for work after commit. */
+export interface Mail {
+	/** Writes a message to the outbox in the change's transaction. */
+	send(to: string, message: EmailTemplate): Promise<void>;
+	/** Runs `task` once the transaction has committed (never if it rolls back). */
+	afterCommit(task: () => Promise<void>): void;
+}
+
+/**
+ * Runs `work` in one transaction with a {@link Mail} for the e-mails it causes; after commit, asks
+ * for their delivery and runs the after-commit tasks. Returns what `work` returned.
+ */
+export async function withMail<T>(work: (tx: Tx, mail: Mail) => Promise<T>): Promise<T> {
+	const queued: string[] = [];
+	const tasks: Array<() => Promise<void>> = [];
+	const result = await db.transaction((tx) =>
+		work(tx, {
+			send: async (to, message) => {
+				queued.push(await queueEmail(tx, to, message));
+			},
+			afterCommit: (task) => {
+				tasks.push(task);
+			}
+		})
+	);
+	await requestEmailDelivery(queued);
+	for (const task of tasks) await task();
+	return result;
 }
 
 /** Writes a message to the outbox as part of the caller's transaction; returns its id. */

@@ -7,7 +7,6 @@
  */
 import { and, between, eq, gt, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { env } from '$env/dynamic/private';
 import { boundingBox, distanceKm, type BoundingBox, type LatLng } from '$lib/geo';
 import {
 	approximateLocation,
@@ -22,7 +21,8 @@ import { BODY_STYLES, CAMERA_SETUPS, POWER_MODES } from '$lib/scope/request';
 import { canQuote } from '$lib/vetting';
 import { db } from './db';
 import { booking, installerProfile, job, jobNotice, quote, user, type Job } from './db/schema';
-import { queueEmail } from './mail';
+import { appUrl } from './app-url';
+import { withMail } from './mail';
 
 /** The service-area form's upper limit, so a box this wide around a job holds every installer who could reach it. */
 export const MAX_SERVICE_RADIUS_KM = 200;
@@ -381,9 +381,9 @@ const DIGEST_LOOKBACK_DAYS = 14;
  * E-mails each vetted installer one digest of the open jobs offered to them that they have not
  * been told about yet (job_notice), then records the notices, in one transaction per installer.
  * Idempotent: a job is in at most one digest per installer, so a retry sends nothing twice.
- * @returns outbox ids to deliver
+ * @returns how many installers were e-mailed
  */
-export async function sendNewJobDigests(now = new Date()): Promise<string[]> {
+export async function sendNewJobDigests(now = new Date()): Promise<number> {
 	const since = new Date(now.getTime() - DIGEST_LOOKBACK_DAYS * 86_400_000);
 	const open = await db
 		.select()
@@ -409,9 +409,9 @@ export async function sendNewJobDigests(now = new Date()): Promise<string[]> {
 			byInstaller.set(installer.id, entry);
 		}
 	}
-	const emailIds: string[] = [];
+	let sent = 0;
 	for (const [installerId, entry] of byInstaller) {
-		await db.transaction(async (tx) => {
+		await withMail(async (tx, mail) => {
 			const fresh = await tx
 				.insert(jobNotice)
 				.values(entry.jobs.map((j) => ({ installerId, jobId: j.jobId, noticedAt: now })))
@@ -425,17 +425,16 @@ export async function sendNewJobDigests(now = new Date()): Promise<string[]> {
 				(j) => fresh.some((f) => f.jobId === j.jobId) && !quoted.some((q) => q.jobId === j.jobId)
 			);
 			if (jobs.length === 0) return;
-			emailIds.push(
-				await queueEmail(tx, entry.email, {
-					template: 'new-jobs-digest',
-					data: {
-						displayName: entry.displayName,
-						jobs: jobs.map(({ title, suburb, distance }) => ({ title, suburb, distance })),
-						url: `${env.ORIGIN ?? 'http://127.0.0.1:3000'}/installer/jobs`
-					}
-				})
-			);
+			await mail.send(entry.email, {
+				template: 'new-jobs-digest',
+				data: {
+					displayName: entry.displayName,
+					jobs: jobs.map(({ title, suburb, distance }) => ({ title, suburb, distance })),
+					url: appUrl('/installer/jobs')
+				}
+			});
+			sent++;
 		});
 	}
-	return emailIds;
+	return sent;
 }

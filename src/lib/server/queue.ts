@@ -1,92 +1,126 @@
 /**
- * Background work for the whole product: pg-boss, a kept PostgreSQL-backed queue. Jobs live in the
- * `pgboss` schema, so they survive restarts and any number of app processes can work the same
- * queues (each job is fetched with SKIP LOCKED by exactly one of them).
+ * Background work for the whole product, registered in this one place: pg-boss, a kept
+ * PostgreSQL-backed queue. Jobs and schedules live in the `pgboss` schema, so they survive restarts
+ * and any number of app processes can work the same queues (each job is fetched with SKIP LOCKED
+ * by exactly one of them; each schedule fires once across all processes).
+ *
+ * | queue                | when                        | what                                          |
+ * | -------------------- | --------------------------- | --------------------------------------------- |
+ * | `email-deliver`      | after each commit with mail | sends one outbox message (retries, back-off)  |
+ * | `email-sweep`        | every 5 minutes             | re-queues messages whose request was lost     |
+ * | `insurance-expiry`   | daily 06:00 Adelaide        | reminders at 30 and 7 days, pause on expiry   |
+ * | `new-job-digest`     | daily 07:00 Adelaide        | one new-job e-mail a day per installer        |
+ * | `quote-digest`       | debounced per job; sweep 10 min | one owner e-mail per burst of quotes      |
+ * | `booking-hold-lapse` | every minute                | lapses provisional bookings past their hold   |
  */
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
+import { QUEUES, QUOTE_DIGEST_SECONDS, setBoss } from './boss';
+import { lapseExpiredHolds } from './bookings';
 import { deliverEmail, listStrandedEmails } from './mail';
-import { registerMarketplaceWork } from './marketplace-work';
+import { sendNewJobDigests } from './matching';
+import { listJobsWithUnsentQuotes, sendOwnerQuoteDigest } from './quotes';
 import { runInsuranceExpiryCheck } from './vetting';
 
-export const EMAIL_QUEUE = 'email-deliver';
-const EMAIL_SWEEP = 'email-sweep';
-export const INSURANCE_EXPIRY_QUEUE = 'insurance-expiry';
+const ADELAIDE = { tz: 'Australia/Adelaide' };
 
-let boss: PgBoss | undefined;
 let starting: Promise<PgBoss> | undefined;
+let running: PgBoss | undefined;
 
 /** Starts the queue and its workers once per process. */
 export function startQueue(): Promise<PgBoss> {
 	starting ??= (async () => {
-		const instance = new PgBoss({
+		const boss = new PgBoss({
 			connectionString: env.DATABASE_URL,
 			schema: 'pgboss',
 			max: 4,
 			application_name: 'tapline-worker'
 		});
-		instance.on('error', (err) => console.error('[queue]', err));
-		await instance.start();
-		// Back-off from 5 s doubling: a short SMTP outage is bridged within minutes, a long one within hours.
-		await instance.createQueue(EMAIL_QUEUE, {
-			name: EMAIL_QUEUE,
-			retryLimit: 12,
-			retryDelay: 5,
-			retryBackoff: true
-		});
-		await instance.createQueue(EMAIL_SWEEP, { name: EMAIL_SWEEP });
-		await instance.work<{ id: string }>(
-			EMAIL_QUEUE,
-			{ pollingIntervalSeconds: 1, batchSize: 5 },
-			async (jobs) => {
-				for (const job of jobs) {
-					const result = await deliverEmail(job.data.id);
-					if (typeof result === 'object') throw new Error(result.error);
-				}
-			}
-		);
-		// Catches anything whose enqueue was lost (process died between commit and send).
-		await instance.schedule(EMAIL_SWEEP, '*/5 * * * *');
-		await instance.work(EMAIL_SWEEP, async () => {
-			for (const id of await listStrandedEmails(5 * 60_000)) {
-				await instance.send(EMAIL_QUEUE, { id });
-			}
-		});
-		// Daily at 06:00 Adelaide time, before the working day: pg-boss keeps one schedule per queue
-		// across all processes and runs it once, and the check itself is idempotent, so a retry or a
-		// second run the same day sends nothing twice.
-		await instance.createQueue(INSURANCE_EXPIRY_QUEUE, {
-			name: INSURANCE_EXPIRY_QUEUE,
-			retryLimit: 3,
-			retryDelay: 300
-		});
-		await instance.schedule(INSURANCE_EXPIRY_QUEUE, '0 6 * * *', undefined, {
-			tz: 'Australia/Adelaide'
-		});
-		await instance.work(INSURANCE_EXPIRY_QUEUE, async () => {
-			const result = await runInsuranceExpiryCheck();
-			await Promise.all(result.emailIds.map((id) => instance.send(EMAIL_QUEUE, { id })));
-		});
-		await registerMarketplaceWork(instance);
-		boss = instance;
-		return instance;
+		boss.on('error', (err) => console.error('[queue]', err));
+		await boss.start();
+		await registerWork(boss);
+		running = boss;
+		setBoss(boss);
+		return boss;
 	})();
 	return starting;
 }
 
-/** Asks a worker to deliver outbox messages now; the sweeper covers a failure here. */
-export async function requestEmailDelivery(ids: string[]): Promise<void> {
-	if (!boss || ids.length === 0) return;
-	try {
-		await Promise.all(ids.map((id) => boss!.send(EMAIL_QUEUE, { id })));
-	} catch (err) {
-		console.error('[queue] could not enqueue e-mail; the sweeper will pick it up', err);
+async function registerWork(boss: PgBoss): Promise<void> {
+	// E-mail: back-off from 5 s doubling, so a short SMTP outage is bridged within minutes and a
+	// long one within hours.
+	await boss.createQueue(QUEUES.emailDeliver, {
+		name: QUEUES.emailDeliver,
+		retryLimit: 12,
+		retryDelay: 5,
+		retryBackoff: true
+	});
+	await boss.work<{ id: string }>(
+		QUEUES.emailDeliver,
+		{ pollingIntervalSeconds: 1, batchSize: 5 },
+		async (jobs) => {
+			for (const job of jobs) {
+				const result = await deliverEmail(job.data.id);
+				if (typeof result === 'object') throw new Error(result.error);
+			}
+		}
+	);
+	// Catches anything whose enqueue was lost (process died between commit and send).
+	await boss.createQueue(QUEUES.emailSweep, { name: QUEUES.emailSweep });
+	await boss.schedule(QUEUES.emailSweep, '*/5 * * * *');
+	await boss.work(QUEUES.emailSweep, async () => {
+		for (const id of await listStrandedEmails(5 * 60_000)) {
+			await boss.send(QUEUES.emailDeliver, { id });
+		}
+	});
+
+	// Insurance: before the working day; the check is idempotent, so a retry or a second run the
+	// same day sends nothing twice.
+	await boss.createQueue(QUEUES.insuranceExpiry, {
+		name: QUEUES.insuranceExpiry,
+		retryLimit: 3,
+		retryDelay: 300
+	});
+	await boss.schedule(QUEUES.insuranceExpiry, '0 6 * * *', undefined, ADELAIDE);
+	await boss.work(QUEUES.insuranceExpiry, async () => {
+		await runInsuranceExpiryCheck();
+	});
+
+	for (const name of [QUEUES.newJobDigest, QUEUES.quoteDigest, QUEUES.bookingHoldLapse]) {
+		await boss.createQueue(name, { name, retryLimit: 3, retryDelay: 60 });
 	}
+	// New jobs: one e-mail a day at most, before the working day. The board shows new jobs at
+	// once; the e-mail is the reminder, not the feed.
+	await boss.schedule(QUEUES.newJobDigest, '0 7 * * *', undefined, ADELAIDE);
+	await boss.work(QUEUES.newJobDigest, async () => {
+		await sendNewJobDigests();
+	});
+	// Quotes: debounced per job (see requestQuoteDigest); the scheduled run without a job id is
+	// the sweep for quotes whose debounced e-mail was never enqueued.
+	await boss.schedule(QUEUES.quoteDigest, '*/10 * * * *');
+	await boss.work<{ jobId?: string }>(QUEUES.quoteDigest, async (jobs) => {
+		for (const job of jobs) {
+			if (job.data.jobId) {
+				await sendOwnerQuoteDigest(job.data.jobId);
+			} else {
+				const cutoff = new Date(Date.now() - 2 * QUOTE_DIGEST_SECONDS * 1000);
+				for (const jobId of await listJobsWithUnsentQuotes(cutoff)) {
+					await sendOwnerQuoteDigest(jobId);
+				}
+			}
+		}
+	});
+	// Holds: a provisional booking lapses within a minute of its hold running out.
+	await boss.schedule(QUEUES.bookingHoldLapse, '* * * * *');
+	await boss.work(QUEUES.bookingHoldLapse, async () => {
+		await lapseExpiredHolds();
+	});
 }
 
 /** Stops workers, letting running jobs finish. */
 export async function stopQueue(): Promise<void> {
-	if (boss) await boss.stop({ graceful: true, wait: true });
-	boss = undefined;
+	setBoss(undefined);
+	if (running) await running.stop({ graceful: true, wait: true });
+	running = undefined;
 	starting = undefined;
 }

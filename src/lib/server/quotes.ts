@@ -6,7 +6,6 @@
  */
 import { and, asc, eq, gt, inArray, isNull, lt, or } from 'drizzle-orm';
 import { z } from 'zod';
-import { env } from '$env/dynamic/private';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { approximateLocation, matchProblem, reachOf } from '$lib/matching';
 import { priceQuote, quoteProblems, travelFeeCents } from '$lib/pricing';
@@ -23,13 +22,13 @@ import {
 	type QuoteSlot
 } from './db/schema';
 import { loadDiary } from './diary';
-import { queueEmail } from './mail';
+import { appUrl } from './app-url';
+import { requestQuoteDigest } from './boss';
+import { withMail } from './mail';
 import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
 
 const uuid = z.uuid();
-
-const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
 
 /** What an installer sends, in GST-inclusive cents and UTC instants. */
 export interface QuoteInput {
@@ -61,7 +60,7 @@ export async function submitQuote(
 	now = new Date()
 ): Promise<QuoteOutcome> {
 	if (!uuid.safeParse(jobId).success) return refuse(404, 'There is no such job.');
-	return db.transaction(async (tx) => {
+	return withMail(async (tx, mail) => {
 		const [profile] = await tx
 			.select()
 			.from(installerProfile)
@@ -185,6 +184,8 @@ export async function submitQuote(
 			},
 			createdAt: now
 		});
+		// The owner hears of a burst of quotes in one e-mail (debounced per job).
+		mail.afterCommit(() => requestQuoteDigest(jobId));
 		return { ok: true, quoteId: saved.id, jobId, revision, masked: masked?.masked ?? [] };
 	});
 }
@@ -259,17 +260,17 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
  * E-mails an owner about quotes that arrived since the last such e-mail, in one message however
  * many came in; marks the job so the next batch starts after them. Idempotent: a second run with
  * nothing new sends nothing.
- * @returns the outbox ids to deliver
+ * @returns whether an e-mail was queued
  */
-export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Promise<string[]> {
-	return db.transaction(async (tx) => {
+export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Promise<boolean> {
+	return withMail(async (tx, mail) => {
 		const [row] = await tx
 			.select({ job, ownerEmail: user.email, ownerName: user.displayName })
 			.from(job)
 			.innerJoin(user, eq(user.id, job.ownerId))
 			.where(eq(job.id, jobId))
 			.for('update', { of: job });
-		if (!row || row.job.status !== 'collecting_quotes') return [];
+		if (!row || row.job.status !== 'collecting_quotes') return false;
 		const since = row.job.quotesNotifiedAt ?? new Date(0);
 		const fresh = await tx
 			.select({
@@ -281,8 +282,8 @@ export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Pro
 			.innerJoin(installerProfile, eq(installerProfile.userId, quote.installerId))
 			.where(and(eq(quote.jobId, jobId), eq(quote.status, 'live'), gt(quote.updatedAt, since)))
 			.orderBy(asc(quote.updatedAt));
-		if (fresh.length === 0) return [];
-		const id = await queueEmail(tx, row.ownerEmail, {
+		if (fresh.length === 0) return false;
+		await mail.send(row.ownerEmail, {
 			template: 'quotes-received',
 			data: {
 				displayName: row.ownerName,
@@ -292,11 +293,11 @@ export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Pro
 					total: formatAud(q.totalCents),
 					revised: q.revision > 1
 				})),
-				url: `${origin()}/owner/jobs/${jobId}/quotes`
+				url: appUrl(`/owner/jobs/${jobId}/quotes`)
 			}
 		});
 		await tx.update(job).set({ quotesNotifiedAt: now }).where(eq(job.id, jobId));
-		return [id];
+		return true;
 	});
 }
 

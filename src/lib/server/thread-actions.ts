@@ -5,7 +5,6 @@
  */
 import { error } from '@sveltejs/kit';
 import { message, type SuperValidated } from 'sveltekit-superforms';
-import { requestEmailDelivery } from './queue';
 import { postJobMessage } from './threads';
 
 /** Posts `form.data.body` to the thread; returns the refusal to send back, or what was masked. */
@@ -20,6 +19,5 @@ export async function sendThreadMessage(
 		if (result.status === 404) error(404, notFound);
 		return { refusal: message(form, result.message, { status: result.status }) };
 	}
-	await requestEmailDelivery(result.emailIds);
 	return { masked: result.masked };
 }

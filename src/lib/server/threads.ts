@@ -4,18 +4,16 @@
  */
 import { and, asc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
-import { env } from '$env/dynamic/private';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { matchProblem, reachOf } from '$lib/matching';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, jobMessage, quote, user } from './db/schema';
-import { queueEmail } from './mail';
+import { appUrl } from './app-url';
+import { withMail } from './mail';
 import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
 
 const uuid = z.uuid();
-
-const origin = () => env.ORIGIN ?? 'http://127.0.0.1:3000';
 
 /** Who may talk in a thread, and whether contact details are still masked in it. */
 async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: string) {
@@ -78,7 +76,7 @@ async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: stri
 	};
 }
 
-export type MessageOutcome = { ok: true; masked: MaskedKind[]; emailIds: string[] } | Refusal;
+export type MessageOutcome = { ok: true; masked: MaskedKind[] } | Refusal;
 
 /**
  * Adds a message to the thread between a job's owner and one installer, masking phone numbers,
@@ -97,7 +95,7 @@ export async function postJobMessage(
 	if (text.length === 0 || text.length > 2000) {
 		return refuse(400, 'Write a message of 1 to 2,000 characters.');
 	}
-	return db.transaction(async (tx) => {
+	return withMail(async (tx, mail) => {
 		const access = await threadAccess(tx, jobId, installerId);
 		if (!access) return refuse(404, 'There is no such job.');
 		const isOwner = author.role === 'owner' && author.id === access.ownerId;
@@ -123,24 +121,24 @@ export async function postJobMessage(
 			masked: masked.masked
 		});
 		const title = access.title ?? 'your dash camera job';
-		const emailId = isOwner
-			? await queueEmail(tx, access.installerEmail, {
+		await (isOwner
+			? mail.send(access.installerEmail, {
 					template: 'job-message',
 					data: {
 						heading: `The owner of the ${title} replied`,
 						body: masked.text,
-						url: `${origin()}/installer/jobs/${jobId}#questions`
+						url: appUrl(`/installer/jobs/${jobId}#questions`)
 					}
 				})
-			: await queueEmail(tx, access.ownerEmail, {
+			: mail.send(access.ownerEmail, {
 					template: 'job-message',
 					data: {
 						heading: `${access.businessName} wrote about your ${title}`,
 						body: masked.text,
-						url: `${origin()}/owner/jobs/${jobId}/quotes/${installerId}`
+						url: appUrl(`/owner/jobs/${jobId}/quotes/${installerId}`)
 					}
-				});
-		return { ok: true, masked: masked.masked, emailIds: [emailId] };
+				}));
+		return { ok: true, masked: masked.masked };
 	});
 }
 

@@ -32,7 +32,8 @@ import {
 	type InstallerProfile,
 	type VettingStatus
 } from './db/schema';
-import { queueEmail } from './mail';
+import { appUrl } from './app-url';
+import { withMail } from './mail';
 import type { EmailTemplate, VettingMailData } from './mail-templates';
 
 /** Smallest accepted public liability cover, from MIN_PUBLIC_LIABILITY_CENTS or the default. */
@@ -43,11 +44,11 @@ export function minCoverCents(): number {
 		: DEFAULT_MIN_PUBLIC_LIABILITY_CENTS;
 }
 
-const statusPageUrl = () => `${env.ORIGIN ?? 'http://127.0.0.1:3000'}/installer`;
+const statusPageUrl = () => appUrl('/installer');
 
 /** A failed decision or submission, with the HTTP status a page should answer with. */
 export type VettingProblem = { ok: false; status: 400 | 404 | 409; message: string };
-export type VettingOutcome = { ok: true; emailIds: string[] } | VettingProblem;
+export type VettingOutcome = { ok: true } | VettingProblem;
 
 export const problem = (status: VettingProblem['status'], message: string): VettingProblem => ({
 	ok: false,
@@ -135,7 +136,7 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
 	if (DECISIONS_NEEDING_MESSAGE.includes(input.decision) && message === '') {
 		return problem(400, 'Write the message or reason the installer will read.');
 	}
-	return db.transaction(async (tx) => {
+	return withMail(async (tx, mail) => {
 		const [admin] = await tx
 			.select({ role: user.role })
 			.from(user)
@@ -194,12 +195,8 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
 			reason: message || null,
 			checklist: input.decision === 'approve' ? input.checklist : null
 		});
-		const emailId = await queueEmail(
-			tx,
-			row.email,
-			decisionEmail(input.decision, mailData(row), message)
-		);
-		return { ok: true, emailIds: [emailId] };
+		await mail.send(row.email, decisionEmail(input.decision, mailData(row), message));
+		return { ok: true };
 	});
 }
 
@@ -297,7 +294,7 @@ export async function getApplicationForReview(installerId: string) {
  * The daily insurance check for vetted installers: sends the 30- and 7-day reminders (each once
  * per expiry date: the insurance_reminder primary key refuses a second row) and pauses quoting
  * on the expiry date. Each installer is handled in its own transaction, so one failure does not
- * hold back the rest. Returns the queued e-mail ids for delivery after commit.
+ * hold back the rest. Each installer's e-mails are queued with its own changes.
  */
 export async function runInsuranceExpiryCheck(now: Date = new Date()) {
 	const candidates = await db
@@ -309,11 +306,10 @@ export async function runInsuranceExpiryCheck(now: Date = new Date()) {
 				isNotNull(installerProfile.insuranceExpiresOn)
 			)
 		);
-	const emailIds: string[] = [];
 	let reminded = 0;
 	let paused = 0;
 	for (const { id } of candidates) {
-		await db.transaction(async (tx) => {
+		await withMail(async (tx, mail) => {
 			const row = await lockProfile(tx, id);
 			const expiresOn = row?.profile.insuranceExpiresOn;
 			if (!row || !expiresOn || row.profile.vettingStatus !== 'approved') return;
@@ -337,12 +333,10 @@ export async function runInsuranceExpiryCheck(now: Date = new Date()) {
 					.returning({ d: insuranceReminder.daysBefore });
 				if (inserted.length > 0) {
 					reminded++;
-					emailIds.push(
-						await queueEmail(tx, row.email, {
-							template: 'insurance-reminder',
-							data: { ...mailData(row), expiresOn, daysBefore: step.remind }
-						})
-					);
+					await mail.send(row.email, {
+						template: 'insurance-reminder',
+						data: { ...mailData(row), expiresOn, daysBefore: step.remind }
+					});
 				}
 			}
 			if (step.lapsed && row.profile.pausedReason === null) {
@@ -360,14 +354,12 @@ export async function runInsuranceExpiryCheck(now: Date = new Date()) {
 					reason
 				});
 				paused++;
-				emailIds.push(
-					await queueEmail(tx, row.email, {
-						template: 'insurance-paused',
-						data: { ...mailData(row), reason }
-					})
-				);
+				await mail.send(row.email, {
+					template: 'insurance-paused',
+					data: { ...mailData(row), reason }
+				});
 			}
 		});
 	}
-	return { reminded, paused, emailIds };
+	return { reminded, paused };
 }

@@ -3,7 +3,6 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { forgotPasswordSchema } from '$lib/forms/auth';
 import { requestPasswordReset } from '$lib/server/accounts';
-import { requestEmailDelivery } from '$lib/server/queue';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => ({
@@ -11,10 +10,10 @@ export const load: PageServerLoad = async () => ({
 });
 
 export const actions = {
-	default: async ({ request, url }) => {
+	default: async ({ request }) => {
 		const form = await superValidate(request, zod4(forgotPasswordSchema));
 		if (!form.valid) return fail(400, { form });
-		await requestEmailDelivery(await requestPasswordReset(form.data.email, url.origin));
+		await requestPasswordReset(form.data.email);
 		// The same words whether or not the address has an account.
 		return message(
 			form,

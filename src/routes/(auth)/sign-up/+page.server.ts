@@ -4,7 +4,6 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { signUpSchema } from '$lib/forms/auth';
 import { createAccount } from '$lib/server/accounts';
 import { startSession } from '$lib/server/auth';
-import { requestEmailDelivery } from '$lib/server/queue';
 import { homeFor } from '$lib/server/guards';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -15,12 +14,12 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 };
 
 export const actions = {
-	default: async ({ request, cookies, url }) => {
+	default: async ({ request, cookies }) => {
 		const form = await superValidate(request, zod4(signUpSchema));
 		const { password } = form.data;
 		form.data.password = ''; // never echo a password back to the page
 		if (!form.valid) return fail(400, { form });
-		const result = await createAccount({ ...form.data, password }, url.origin);
+		const result = await createAccount({ ...form.data, password });
 		if (result === 'email-taken') {
 			return setError(
 				form,
@@ -29,7 +28,6 @@ export const actions = {
 				{ status: 409 }
 			);
 		}
-		await requestEmailDelivery(result.emailIds);
 		await startSession(cookies, result.user.id);
 		redirect(303, '/verify-email?sent=1');
 	}

@@ -1,7 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { resendVerification, verifyEmailToken } from '$lib/server/accounts';
-import { requestEmailDelivery } from '$lib/server/queue';
 import type { Actions, PageServerLoad } from './$types';
 
 const confirmSchema = z.object({ token: z.string().min(10).max(200) });
@@ -25,9 +24,9 @@ export const actions = {
 		}
 		redirect(303, '/verify-email?done=1');
 	},
-	resend: async ({ locals, url }) => {
+	resend: async ({ locals }) => {
 		if (!locals.user) redirect(303, '/sign-in?redirectTo=/verify-email');
-		await requestEmailDelivery(await resendVerification(locals.user.id, url.origin));
+		await resendVerification(locals.user.id);
 		return { resent: true };
 	}
 } satisfies Actions;

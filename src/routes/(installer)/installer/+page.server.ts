@@ -1,6 +1,5 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/guards';
-import { requestEmailDelivery } from '$lib/server/queue';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -29,7 +28,6 @@ export const actions = {
 		const installer = requireRole('installer');
 		const result = await submitApplication(installer.id);
 		if (!result.ok) return fail(result.status, { problem: result.message });
-		await requestEmailDelivery(result.emailIds);
 		redirect(303, '/installer?sent=1');
 	}
 } satisfies Actions;

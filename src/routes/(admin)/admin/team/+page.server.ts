@@ -4,7 +4,6 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { adminInviteSchema } from '$lib/forms/auth';
 import { createAdminAccount, listAdmins } from '$lib/server/accounts';
 import { requireRole } from '$lib/server/guards';
-import { requestEmailDelivery } from '$lib/server/queue';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
@@ -14,15 +13,14 @@ export const load: PageServerLoad = async () => {
 };
 
 export const actions = {
-	createAdmin: async ({ request, url }) => {
+	createAdmin: async ({ request }) => {
 		const admin = requireRole('admin');
 		const form = await superValidate(request, zod4(adminInviteSchema));
 		if (!form.valid) return fail(400, { form });
-		const result = await createAdminAccount(admin, form.data, url.origin);
+		const result = await createAdminAccount(admin, form.data);
 		if (result === 'email-taken') {
 			return setError(form, 'email', 'An account already uses this address.', { status: 409 });
 		}
-		await requestEmailDelivery(result.emailIds);
 		return message(
 			form,
 			`${result.user.displayName} is an admin now; we e-mailed them a link to set a password.`

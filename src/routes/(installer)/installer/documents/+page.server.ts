@@ -3,7 +3,6 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { insuranceSchema } from '$lib/forms/vetting';
 import { requireRole } from '$lib/server/guards';
-import { requestEmailDelivery } from '$lib/server/queue';
 import { discardUpload, storeUpload } from '$lib/server/uploads';
 import { addInstallerDocument, listInstallerDocuments } from '$lib/server/documents';
 import { getInstallerProfile, saveInsuranceDetails } from '$lib/server/installers';
@@ -40,7 +39,6 @@ export const actions = {
 			coverCents: coverDollars * 100
 		});
 		if (!result.ok) return message(form, result.message, { status: result.status });
-		await requestEmailDelivery(result.emailIds);
 		return message(
 			form,
 			result.paused

@@ -3,7 +3,6 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { decisionSchema } from '$lib/forms/vetting';
 import { requireRole } from '$lib/server/guards';
-import { requestEmailDelivery } from '$lib/server/queue';
 import { decideApplication, getApplicationForReview } from '$lib/server/vetting';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -34,7 +33,6 @@ export const actions = {
 			checklist
 		});
 		if (!result.ok) return message(form, result.message, { status: result.status });
-		await requestEmailDelivery(result.emailIds);
 		redirect(303, `/admin/vetting/${params.id}?decided=${decision}`);
 	}
 } satisfies Actions;

@@ -3,7 +3,6 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { requireRole } from '$lib/server/guards';
 import { listJobPhotos } from '$lib/server/jobs';
-import { requestQuoteDigest } from '$lib/server/marketplace-work';
 import { sendThreadMessage } from '$lib/server/thread-actions';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { formatSlot } from '$lib/schedule';
@@ -96,7 +95,6 @@ export const actions = {
 				status: result.status
 			});
 		}
-		await requestQuoteDigest(result.jobId);
 		const masked = result.masked.length > 0 ? '&masked=1' : '';
 		redirect(303, `/installer/jobs/${params.id}?quoted=${String(result.revision)}${masked}`);
 	},

@@ -2,7 +2,6 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { getOwnerBooking, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { startHeldFundsPayment } from '$lib/server/payments';
-import { requestEmailDelivery } from '$lib/server/queue';
 import { formatSlot } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -13,7 +12,7 @@ export const load: PageServerLoad = async ({ params }) => {
 	const found = await getOwnerBooking(params.id, owner.id);
 	if (!found) error(404, NOT_FOUND);
 	// An ended hold is lapsed on sight rather than shown as still held.
-	await requestEmailDelivery(await lapseExpiredHolds({ jobId: found.jobId }));
+	await lapseExpiredHolds({ jobId: found.jobId });
 	const row = (await getOwnerBooking(params.id, owner.id)) ?? found;
 	const b = row.booking;
 	return {

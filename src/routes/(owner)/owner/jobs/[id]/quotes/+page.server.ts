@@ -4,7 +4,6 @@ import { BEST_FIT_FORMULA } from '$lib/ranking';
 import { getLiveBookingForJob, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
-import { requestEmailDelivery } from '$lib/server/queue';
 import { listAskingInstallers } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
 import { COMPARISON_SORTS, compareQuotes, type ComparisonSort } from './comparison';
@@ -22,7 +21,7 @@ const DESCENDING_FIRST: readonly ComparisonSort[] = ['rating', 'fits', 'warranty
 export const load: PageServerLoad = async ({ params, url }) => {
 	const owner = requireRole('owner');
 	// A hold that ran out is lapsed on sight, so the owner never sees a stale "booked".
-	await requestEmailDelivery(await lapseExpiredHolds({ jobId: params.id }));
+	await lapseExpiredHolds({ jobId: params.id });
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, 'There is no such job among yours.');
 	const { sort, dir: asked } = sortSchema.parse(Object.fromEntries(url.searchParams));

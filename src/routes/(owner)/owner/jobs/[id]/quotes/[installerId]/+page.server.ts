@@ -5,7 +5,6 @@ import { z } from 'zod';
 import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
-import { requestEmailDelivery } from '$lib/server/queue';
 import { sendThreadMessage } from '$lib/server/thread-actions';
 import { formatSlot } from '$lib/schedule';
 import { listJobMessages } from '$lib/server/threads';
@@ -27,7 +26,7 @@ const NOT_FOUND = 'There is no such quote on your jobs.';
 
 export const load: PageServerLoad = async ({ params, url }) => {
 	const owner = requireRole('owner');
-	await requestEmailDelivery(await lapseExpiredHolds({ jobId: params.id }));
+	await lapseExpiredHolds({ jobId: params.id });
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, NOT_FOUND);
 	const [quotes, messages] = await Promise.all([
@@ -85,7 +84,6 @@ export const actions = {
 			if (result.status === 404) error(404, NOT_FOUND);
 			return message(bookForm, result.message, { status: result.status });
 		}
-		await requestEmailDelivery(result.emailIds);
 		redirect(303, `/owner/bookings/${result.bookingId}`);
 	},
 	reply: async ({ request, params }) => {
