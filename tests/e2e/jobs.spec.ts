@@ -81,6 +81,13 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 	const row = page.getByTestId('my-jobs').getByRole('row', { name: /2019 Demo Tourer/ });
 	await expect(row).toContainText('Open for quotes');
 	await expect(row).toContainText(inDays(5));
+
+	// My jobs sorts from its headers: newest started first, then the other way round.
+	const started = page.getByTestId('my-jobs').getByRole('columnheader', { name: 'Started' });
+	await expect(started).toHaveAttribute('aria-sort', 'descending');
+	await started.getByRole('link').click();
+	await expect(page).toHaveURL(/\?sort=created&dir=asc$/);
+	await expect(started).toHaveAttribute('aria-sort', 'ascending');
 });
 
 test('a step refuses bad input with messages, and another owner cannot open the job', async ({
@@ -93,6 +100,21 @@ test('a step refuses bad input with messages, and another owner cannot open the 
 	await expect(page.getByText('Enter the make')).toBeVisible();
 	await expect(page.getByText('Enter the year as four digits, e.g. 2018')).toBeVisible();
 	await expect(page.getByText('Choose a body style')).toBeVisible();
+	// A select with nothing valid chosen reads "Choose…" after the refusal and is marked invalid.
+	const bodyStyle = page.getByLabel('Body style');
+	const battery = page.getByLabel('Battery type');
+	await expect(bodyStyle.locator('option:checked')).toHaveText('Choose…');
+	await expect(bodyStyle).toHaveAttribute('aria-invalid', 'true');
+	await expect(bodyStyle).toHaveAccessibleDescription('Choose a body style');
+	await expect(battery.locator('option:checked')).toHaveText('Choose…');
+	await expect(battery).toHaveAttribute('aria-invalid', 'true');
+	// A choice made before the next refusal stays chosen and stops being invalid.
+	await bodyStyle.selectOption('ute');
+	await page.getByRole('button', { name: 'Save and continue' }).click();
+	await expect(bodyStyle).not.toHaveAttribute('aria-invalid');
+	await expect(bodyStyle.locator('option:checked')).toHaveText('Ute');
+	await expect(battery.locator('option:checked')).toHaveText('Choose…');
+	await expect(battery).toHaveAttribute('aria-invalid', 'true');
 	const jobUrl = page.url().replace(/\/vehicle$/, '');
 
 	const other = await browser.newPage();

@@ -81,12 +81,28 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await expect(owner.getByTestId('quote-table')).toContainText('No reviews yet');
 	await owner.screenshot({ path: testInfo.outputPath('comparison.png'), fullPage: true });
 	// Sorting by total puts the cheaper quote (Ruth's labour was $40 less) first.
-	await owner.getByRole('link', { name: 'Total' }).click();
+	const total = owner.getByRole('columnheader', { name: 'Total' });
+	await total.getByRole('link').click();
+	await expect(total).toHaveAttribute('aria-sort', 'ascending');
 	await expect(owner.getByTestId('quote-row').first()).toContainText('Headliner Hands');
+	// The same header again sorts the other way.
+	await total.getByRole('link').click();
+	await expect(owner).toHaveURL(/\?sort=total&dir=desc$/);
+	await expect(total).toHaveAttribute('aria-sort', 'descending');
+	await expect(owner.getByTestId('quote-row').first()).toContainText('Fuse & Fettle');
 
 	const demoRow = owner.getByTestId('quote-row').filter({ hasText: 'Fuse & Fettle' });
 	await demoRow.getByRole('link', { name: 'Details and booking' }).click();
 	await expect(owner.getByTestId('thread')).toContainText('[hidden until booked]');
+	// The owner answers in the same thread; an empty answer is refused first.
+	const questions = owner.locator('#questions');
+	await questions.getByRole('button', { name: 'Send', exact: true }).click();
+	await expect(questions.getByLabel('Reply')).toHaveAttribute('aria-invalid', 'true');
+	await expect(questions.getByRole('alert')).toHaveText('Write your message');
+	await questions.getByLabel('Reply').fill('Yes, it lives in a carport.');
+	await questions.getByRole('button', { name: 'Send', exact: true }).click();
+	await expect(owner.getByTestId('thread')).toContainText('Yes, it lives in a carport.');
+	await expect(questions.getByRole('status')).toHaveText('Sent.');
 	await owner.getByRole('radio').first().check();
 	await owner.getByRole('button', { name: 'Book this time' }).click();
 	await expect(owner.getByTestId('booking-status')).toHaveText('Provisional: waiting for payment');
@@ -106,6 +122,7 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await demo.reload();
 	await expect(demo.getByTestId('booked-details')).toContainText('14 Demo Court, Walkerville');
 	await expect(demo.getByTestId('booked-details')).toContainText('Marnie Okafor');
+	await expect(demo.getByTestId('thread')).toContainText('Yes, it lives in a carport.');
 });
 
 test('the job board API answers 401, 403 and 400 with messages', async ({ page, browser }) => {

@@ -36,6 +36,11 @@ test('the first job step works without JavaScript', async ({ page }) => {
 	await page.getByRole('button', { name: 'Describe a new job' }).click();
 	await page.getByRole('button', { name: 'Save and continue' }).click();
 	await expect(page.getByText('Enter the make')).toBeVisible();
+	// The server's page after the refusal: the empty select reads "Choose…" and is marked invalid.
+	const bodyStyle = page.getByLabel('Body style');
+	await expect(bodyStyle.locator('option:checked')).toHaveText('Choose…');
+	await expect(bodyStyle).toHaveAttribute('aria-invalid', 'true');
+	await expect(bodyStyle).toHaveAccessibleDescription('Choose a body style');
 	await page.getByLabel('Make').fill('Demo');
 	await page.getByLabel('Model').fill('Ute');
 	await page.getByLabel('Year').fill('2021');

@@ -91,6 +91,21 @@ test('an installer applies, an admin asks for more, then approves; e-mails arriv
 	// The admin finds it in the queue and asks for more.
 	const admin = await signedInPage(browser, DEMO.admin);
 	await admin.goto('/admin/vetting?status=applied&sort=newest');
+	// The queue sorts from its headers and keeps the standing filter.
+	const queue = admin.getByTestId('vetting-queue');
+	await expect(admin.getByLabel('Standing')).toHaveValue('applied');
+	await expect(queue.getByRole('columnheader', { name: 'Sent' })).toHaveAttribute(
+		'aria-sort',
+		'descending'
+	);
+	await queue.getByRole('link', { name: 'Business' }).click();
+	await expect(admin).toHaveURL(/\?status=applied&sort=name$/);
+	await expect(queue.getByRole('columnheader', { name: 'Business' })).toHaveAttribute(
+		'aria-sort',
+		'ascending'
+	);
+	await expect(queue.getByRole('columnheader', { name: 'Sent' })).not.toHaveAttribute('aria-sort');
+	await admin.goBack();
 	await admin.getByRole('link', { name: business }).click();
 	await expect(admin.getByTestId('application-standing')).toHaveText('Waiting for an admin');
 	await expect(admin.getByTestId('abn')).toContainText('51 824 753 556 (passes the ABN check)');

@@ -8,6 +8,7 @@ import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { matchProblem, reachOf } from '$lib/matching';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, jobMessage, quote, user } from './db/schema';
+import { threadMessageSchema } from '$lib/forms/thread';
 import { appUrl } from './app-url';
 import { withMail } from './mail';
 import { refuse, type Refusal } from './refusal';
@@ -92,8 +93,9 @@ export async function postJobMessage(
 ): Promise<MessageOutcome> {
 	if (!uuid.safeParse(jobId).success) return refuse(404, 'There is no such job.');
 	const text = body.trim();
-	if (text.length === 0 || text.length > 2000) {
-		return refuse(400, 'Write a message of 1 to 2,000 characters.');
+	const checked = threadMessageSchema.safeParse({ body });
+	if (!checked.success) {
+		return refuse(400, checked.error.issues[0]?.message ?? 'Write your message.');
 	}
 	return withMail(async (tx, mail) => {
 		const access = await threadAccess(tx, jobId, installerId);

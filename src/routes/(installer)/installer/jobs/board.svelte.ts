@@ -5,6 +5,7 @@
  */
 import type { MapBounds } from '$lib/components/JobMap.svelte';
 import { BOARD_DEFAULT_DIR, type BoardJob, type BoardSort } from '$lib/board';
+import { queryString, sortHref } from '$lib/query';
 
 export interface BoardFilters {
 	bodyStyle: string;
@@ -19,10 +20,6 @@ interface BoardPage {
 	nextCursor: string | null;
 	total: number;
 }
-
-/** Encodes query parameters (a plain string: nothing here needs to be reactive). */
-const toQuery = (entries: Array<[string, string]>) =>
-	entries.map(([k, v]) => `${encodeURIComponent(k)}=${encodeURIComponent(v)}`).join('&');
 
 /** Waits this long after the map stops moving before asking for jobs. */
 const DEBOUNCE_MS = 350;
@@ -84,12 +81,20 @@ export class JobBoard {
 		return p;
 	}
 
-	/** A query string for links: the current view without the map's bounds, with changes. */
-	href(changes: Record<string, string | null>): string {
+	/** The current view as a link's parameters: the map's bounds stay out of links. */
+	#linkParams(): Record<string, string> {
 		const { bounds: _bounds, ...rest } = this.params();
-		const merged = { ...rest, ...changes };
-		const entries = Object.entries(merged).filter((e): e is [string, string] => e[1] !== null);
-		return `?${toQuery(entries)}`;
+		return rest;
+	}
+
+	/** A query string for links: the current view, with changes. */
+	href(changes: Record<string, string | null>): string {
+		return queryString(this.#linkParams(), changes);
+	}
+
+	/** The link of a sortable column's header (the same column again flips the direction). */
+	sortLink(key: BoardSort): string {
+		return sortHref(this.#linkParams(), key, { sort: this.sort, dir: this.direction });
 	}
 
 	/** Loads the first page for the current view, or appends the next page. */
@@ -98,8 +103,8 @@ export class JobBoard {
 		this.loading = true;
 		this.error = null;
 		try {
-			const query = toQuery(Object.entries(this.params(append ? this.nextCursor : null)));
-			const res = await fetch(`/api/jobs?${query}`);
+			const query = queryString(this.params(append ? this.nextCursor : null));
+			const res = await fetch(`/api/jobs${query}`);
 			const body = (await res.json()) as Partial<BoardPage> & { message?: string };
 			if (id !== this.#request) return;
 			if (!res.ok) {

@@ -1,6 +1,7 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
+import { threadMessageSchema } from '$lib/forms/thread';
 import { requireRole } from '$lib/server/guards';
 import { listJobPhotos } from '$lib/server/jobs';
 import { sendThreadMessage } from '$lib/server/thread-actions';
@@ -8,7 +9,7 @@ import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { formatSlot } from '$lib/schedule';
 import { listJobMessages } from '$lib/server/threads';
 import { listQuoteRevisions, submitQuote, withdrawQuote } from '$lib/server/quotes';
-import { askSchema, quoteFormSchema, toQuoteInput } from './quote-form';
+import { quoteFormSchema, toQuoteInput } from './quote-form';
 import { quoteFormDefaults } from './quote-defaults';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -33,7 +34,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	]);
 	const [form, askForm] = await Promise.all([
 		superValidate(defaults, zod4(quoteFormSchema), { errors: false }),
-		superValidate(zod4(askSchema))
+		superValidate(zod4(threadMessageSchema))
 	]);
 	const q = found.myQuote;
 	return {
@@ -106,7 +107,7 @@ export const actions = {
 	},
 	ask: async ({ request, params }) => {
 		const { installer } = await context();
-		const askForm = await superValidate(request, zod4(askSchema));
+		const askForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!askForm.valid) return fail(400, { askForm });
 		const sent = await sendThreadMessage(
 			askForm,

@@ -54,14 +54,6 @@ export const quoteFormSchema = z.object({
 });
 export type QuoteForm = z.output<typeof quoteFormSchema>;
 
-export const askSchema = z.object({
-	body: z
-		.string()
-		.trim()
-		.min(1, { error: 'Write your question' })
-		.max(2000, { error: 'Keep it under 2,000 characters' })
-});
-
 const addDay = (date: string) => {
 	const [y, m, d] = date.split('-').map(Number) as [number, number, number];
 	return new Date(Date.UTC(y, m - 1, d + 1)).toISOString().slice(0, 10);

@@ -2,6 +2,7 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
+import { threadMessageSchema } from '$lib/forms/thread';
 import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
@@ -14,13 +15,6 @@ import type { Actions, PageServerLoad } from './$types';
 const bookSchema = z.object({
 	quoteId: z.uuid(),
 	slot: z.string({ error: 'Choose a time' }).min(1, { error: 'Choose one of the times offered' })
-});
-const replySchema = z.object({
-	body: z
-		.string()
-		.trim()
-		.min(1, { error: 'Write your answer' })
-		.max(2000, { error: 'Keep it under 2,000 characters' })
 });
 const NOT_FOUND = 'There is no such quote on your jobs.';
 
@@ -38,7 +32,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	const now = Date.now();
 	const [bookForm, replyForm] = await Promise.all([
 		superValidate({ quoteId: q?.id ?? '', slot: '' }, zod4(bookSchema), { errors: false }),
-		superValidate(zod4(replySchema))
+		superValidate(zod4(threadMessageSchema))
 	]);
 	return {
 		job: { id: job.id, title: job.title ?? 'Your job', status: job.status, timeZone: job.timeZone },
@@ -88,7 +82,7 @@ export const actions = {
 	},
 	reply: async ({ request, params }) => {
 		const owner = requireRole('owner');
-		const replyForm = await superValidate(request, zod4(replySchema));
+		const replyForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!replyForm.valid) return fail(400, { replyForm });
 		const sent = await sendThreadMessage(
 			replyForm,
