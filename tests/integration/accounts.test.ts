@@ -40,7 +40,7 @@ describe('createAccount', () => {
 			displayName: ' Wren ',
 			role: 'owner'
 		});
-		if (result === 'email-taken') throw new Error('unexpected');
+		if (!result.ok) throw new Error(result.message);
 		const [row] = await db.select().from(user).where(eq(user.id, result.user.id));
 		expect(row?.email).toBe(email);
 		expect(row?.displayName).toBe('Wren');
@@ -63,7 +63,7 @@ describe('createAccount', () => {
 			displayName: 'Second',
 			role: 'installer'
 		});
-		expect(again).toBe('email-taken');
+		expect(again).toMatchObject({ ok: false, status: 409, fields: { email: expect.any(String) } });
 		const [after] = await db.select({ n: count() }).from(emailOutbox);
 		expect(after?.n).toBe(before?.n);
 		const [{ n: users } = { n: 0 }] = await db
@@ -116,7 +116,7 @@ describe('password reset', () => {
 	it('sets the new password, signs out every session, and works only once', async () => {
 		const email = freshEmail();
 		const created = await createAccount({ email, password, displayName: 'Reset', role: 'owner' });
-		if (created === 'email-taken') throw new Error('unexpected');
+		if (!created.ok) throw new Error(created.message);
 		await db.insert(session).values({
 			id: `s-${Date.now()}`,
 			userId: created.user.id,
@@ -143,7 +143,7 @@ describe('createAdminAccount', () => {
 		};
 		const email = freshEmail();
 		const created = await createAdminAccount(inviter, { email, displayName: 'New Admin' });
-		if (created === 'email-taken') throw new Error('unexpected');
+		if (!created.ok) throw new Error(created.message);
 		expect(created.user.role).toBe('admin');
 		const [mail] = await db.select().from(emailOutbox).where(eq(emailOutbox.toAddress, email));
 		expect(mail?.template).toBe('admin-invite');

@@ -69,7 +69,7 @@ describe('job drafts', () => {
 		const owner = await makeUser('owner');
 		const id = await createDraftJob(owner);
 		await fillDraft(id, owner);
-		expect(await postJob(id, owner)).toBe('ok');
+		expect(await postJob(id, owner)).toEqual({ ok: true });
 		const posted = await getOwnedJob(id, owner);
 		expect(posted?.status).toBe('collecting_quotes');
 		expect(posted?.title).toBe('2019 Demo Wagon');
@@ -87,8 +87,9 @@ describe('job drafts', () => {
 		const id = await createDraftJob(owner);
 		await saveJobStep(id, owner, 'vehicle', { make: 'Demo' });
 		const result = await postJob(id, owner);
-		expect(Array.isArray(result)).toBe(true);
-		const steps = (result as { step: string }[]).map((p) => p.step);
+		expect(result.ok).toBe(false);
+		expect(!result.ok && result.status).toBe(400);
+		const steps = Object.keys((!result.ok && result.fields) || {});
 		expect(steps).toEqual(expect.arrayContaining(['vehicle', 'cameras', 'place']));
 		const [row] = await db.select().from(job).where(eq(job.id, id));
 		expect(row?.status).toBe('drafting');
@@ -104,9 +105,11 @@ describe('job drafts', () => {
 			.set({ preferredWindows: [{ date: '2020-01-01', window: 'morning' }] })
 			.where(eq(job.id, id));
 		const result = await postJob(id, owner);
-		expect(result).toEqual([
-			{ step: 'place', message: 'Preferred dates: choose a date from tomorrow on' }
-		]);
+		expect(result).toMatchObject({
+			ok: false,
+			status: 400,
+			fields: { place: 'Preferred dates: choose a date from tomorrow on' }
+		});
 	});
 
 	it("never lets one owner read or change another owner's job", async () => {
@@ -114,8 +117,11 @@ describe('job drafts', () => {
 		const stranger = await makeUser('owner');
 		const id = await createDraftJob(owner);
 		expect(await getOwnedJob(id, stranger)).toBeNull();
-		expect(await saveJobStep(id, stranger, 'vehicle', { make: 'Hijack' })).toBe('not-found');
-		expect(await withdrawJob(id, stranger, 'not mine')).toBe('not-found');
+		expect(await saveJobStep(id, stranger, 'vehicle', { make: 'Hijack' })).toMatchObject({
+			ok: false,
+			status: 404
+		});
+		expect(await withdrawJob(id, stranger, 'not mine')).toMatchObject({ ok: false, status: 404 });
 		expect(await getOwnedJob('not-a-uuid', owner)).toBeNull();
 		const [row] = await db.select().from(job).where(eq(job.id, id));
 		expect(row?.draft).toEqual({});
@@ -136,14 +142,17 @@ describe('job drafts', () => {
 		await fillDraft(id, owner);
 		await postJob(id, owner);
 		await db.insert(quote).values({ jobId: id, installerId: installer, totalCents: 45_000 });
-		expect(await saveJobStep(id, owner, 'vehicle', { make: 'Changed' })).toBe('locked');
-		expect(await postJob(id, owner)).toBe('locked');
+		expect(await saveJobStep(id, owner, 'vehicle', { make: 'Changed' })).toMatchObject({
+			ok: false,
+			status: 409
+		});
+		expect(await postJob(id, owner)).toMatchObject({ ok: false, status: 409 });
 		expect((await getOwnedJob(id, owner))?.editable).toBe(false);
-		expect(await withdrawJob(id, owner, 'Sold the car')).toBe('ok');
+		expect(await withdrawJob(id, owner, 'Sold the car')).toEqual({ ok: true });
 		const [row] = await db.select().from(job).where(eq(job.id, id));
 		expect(row?.status).toBe('withdrawn');
 		expect(row?.withdrawnReason).toBe('Sold the car');
-		expect(await withdrawJob(id, owner, 'again')).toBe('locked');
+		expect(await withdrawJob(id, owner, 'again')).toMatchObject({ ok: false, status: 409 });
 	});
 
 	it('lists an owner’s jobs with quote counts, sorted and paginated', async () => {
@@ -185,12 +194,16 @@ describe('job drafts', () => {
 			height: 10,
 			bytes: 100
 		});
-		expect(await setJobPhoto(id, owner, 'fuse-box', photo(1))).toEqual({ displaced: [] });
+		expect(await setJobPhoto(id, owner, 'fuse-box', photo(1))).toEqual({ ok: true, displaced: [] });
 		expect(await setJobPhoto(id, owner, 'fuse-box', photo(2))).toEqual({
+			ok: true,
 			displaced: ['k1.jpg', 'k1-t.jpg']
 		});
-		expect(await setJobPhoto(id, stranger, 'fuse-box')).toBe('not-found');
-		expect(await setJobPhoto(id, owner, 'fuse-box')).toEqual({ displaced: ['k2.jpg', 'k2-t.jpg'] });
-		expect(await setJobPhoto(id, owner, 'fuse-box')).toEqual({ displaced: [] });
+		expect(await setJobPhoto(id, stranger, 'fuse-box')).toMatchObject({ ok: false, status: 404 });
+		expect(await setJobPhoto(id, owner, 'fuse-box')).toEqual({
+			ok: true,
+			displaced: ['k2.jpg', 'k2-t.jpg']
+		});
+		expect(await setJobPhoto(id, owner, 'fuse-box')).toEqual({ ok: true, displaced: [] });
 	});
 });

@@ -67,7 +67,7 @@ export async function makeCompleteDraft(insuranceExpiresOn = '2030-06-30') {
 		},
 		NORWOOD
 	);
-	if (saved !== 'saved') throw new Error(`application not saved: ${saved}`);
+	if (!saved.ok) throw new Error(`application not saved: ${saved.message}`);
 	const insurance = await saveInsuranceDetails(installer.id, {
 		insurer: 'Gumleaf Mutual',
 		policyNumber: 'PL-123456',

@@ -44,9 +44,12 @@ describe('application and submission', () => {
 			offersWorkshop: false,
 			workshopAddress: null
 		};
-		expect(await saveApplication(installer.id, draft, null)).toBe('needs-place');
+		expect(await saveApplication(installer.id, draft, null)).toMatchObject({
+			ok: false,
+			status: 400
+		});
 		expect(await profileOf(installer.id)).toBeUndefined();
-		expect(await saveApplication(installer.id, draft, NORWOOD)).toBe('saved');
+		expect(await saveApplication(installer.id, draft, NORWOOD)).toEqual({ ok: true });
 		const row = await profileOf(installer.id);
 		expect(row?.suburb).toBe('Norwood');
 		expect(row?.submittedAt).toBeNull();
@@ -88,7 +91,7 @@ describe('application and submission', () => {
 				},
 				null
 			)
-		).toBe('locked');
+		).toMatchObject({ ok: false, status: 409 });
 	});
 });
 

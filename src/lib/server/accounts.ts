@@ -9,10 +9,23 @@ import { db, type Tx } from './db';
 import { emailToken, user, type Role, type User } from './db/schema';
 import { appUrl } from './app-url';
 import { withMail } from './mail';
+import { refuse, type Refusal } from './refusal';
 import { hashPassword, verifyPassword } from './password';
 
 const VERIFY_TTL_MS = 48 * 3600_000;
 const RESET_TTL_MS = 3600_000;
+
+const emailTaken = () =>
+	refuse(
+		409,
+		'An account already uses this address. Sign in, or reset the password from the sign-in page.',
+		{
+			fields: {
+				email:
+					'An account already uses this address. Sign in, or reset the password from the sign-in page.'
+			}
+		}
+	);
 
 type TokenPurpose = 'verify-email' | 'reset-password';
 
@@ -60,11 +73,11 @@ export interface NewAccount {
 
 /**
  * Creates an owner or installer account and queues the verification e-mail.
- * Returns `'email-taken'` when the address already has an account.
+ * Refuses (409, on the e-mail field) an address that already has an account.
  */
 export async function createAccount(
 	input: NewAccount
-): Promise<{ user: AccountSummary } | 'email-taken'> {
+): Promise<{ ok: true; user: AccountSummary } | Refusal> {
 	const email = normaliseEmail(input.email);
 	const passwordHash = await hashPassword(input.password);
 	return withMail(async (tx, mail) => {
@@ -84,13 +97,13 @@ export async function createAccount(
 				role: user.role,
 				displayName: user.displayName
 			});
-		if (!created) return 'email-taken' as const;
+		if (!created) return emailTaken();
 		const token = await issueToken(tx, created.id, 'verify-email', VERIFY_TTL_MS);
 		await mail.send(email, {
 			template: 'verify-email',
 			data: { displayName: created.displayName, url: appUrl(`/verify-email?token=${token}`) }
 		});
-		return { user: created };
+		return { ok: true as const, user: created };
 	});
 }
 
@@ -191,7 +204,7 @@ export async function resetPassword(token: string, newPassword: string): Promise
 export async function createAdminAccount(
 	invitedBy: AccountSummary,
 	input: { email: string; displayName: string }
-): Promise<{ user: AccountSummary } | 'email-taken'> {
+): Promise<{ ok: true; user: AccountSummary } | Refusal> {
 	if (invitedBy.role !== 'admin') throw new Error('Only an admin can create an admin');
 	const passwordHash = await hashPassword(randomBytes(24).toString('base64url'));
 	return withMail(async (tx, mail) => {
@@ -211,7 +224,7 @@ export async function createAdminAccount(
 				role: user.role,
 				displayName: user.displayName
 			});
-		if (!created) return 'email-taken' as const;
+		if (!created) return emailTaken();
 		const token = await issueToken(tx, created.id, 'reset-password', RESET_TTL_MS);
 		await mail.send(created.email, {
 			template: 'admin-invite',
@@ -221,7 +234,7 @@ export async function createAdminAccount(
 				url: appUrl(`/reset-password?token=${token}`)
 			}
 		});
-		return { user: created };
+		return { ok: true as const, user: created };
 	});
 }
 

@@ -14,14 +14,8 @@ import { db } from './db';
 import { installerHours, installerProfile, vettingEvent, type InstallerProfile } from './db/schema';
 import { documentKinds, listInstallerDocuments } from './documents';
 import { withMail } from './mail';
-import {
-	lockProfile,
-	mailData,
-	problem,
-	recordEvent,
-	type VettingOutcome,
-	type VettingProblem
-} from './vetting';
+import { refuse, type Refusal } from './refusal';
+import { lockProfile, mailData, recordEvent, type VettingOutcome } from './vetting';
 
 /** A suburb and the point the installer works from, as the geocoder or the map gave it. */
 export interface BasePlace {
@@ -68,7 +62,7 @@ export async function saveApplication(
 	installerId: string,
 	input: ApplicationInput,
 	place: BasePlace | null
-): Promise<'saved' | 'locked' | 'needs-place'> {
+): Promise<{ ok: true } | Refusal> {
 	return db.transaction(async (tx) => {
 		const [existing] = await tx
 			.select({ status: installerProfile.vettingStatus, submittedAt: installerProfile.submittedAt })
@@ -93,7 +87,11 @@ export async function saveApplication(
 				: {})
 		};
 		if (!existing) {
-			if (!place) return 'needs-place';
+			if (!place) {
+				return refuse(400, 'Say which suburb or postcode you work from.', {
+					fields: { baseSuburb: 'Say which suburb or postcode you work from' }
+				});
+			}
 			await tx.insert(installerProfile).values({
 				userId: installerId,
 				businessName: input.businessName,
@@ -104,10 +102,12 @@ export async function saveApplication(
 				latitude: place.latitude,
 				longitude: place.longitude
 			});
-			return 'saved';
+			return { ok: true } as const;
 		}
 		const stage = stageOf({ vettingStatus: existing.status, submittedAt: existing.submittedAt });
-		if (!EDITABLE_STAGES.includes(stage)) return 'locked';
+		if (!EDITABLE_STAGES.includes(stage)) {
+			return refuse(409, 'Your application is with an admin; it cannot be changed now.');
+		}
 		await tx
 			.update(installerProfile)
 			.set({
@@ -116,7 +116,7 @@ export async function saveApplication(
 				updatedAt: new Date()
 			})
 			.where(eq(installerProfile.userId, installerId));
-		return 'saved';
+		return { ok: true } as const;
 	});
 }
 
@@ -135,14 +135,14 @@ export interface InsuranceInput {
 export async function saveInsuranceDetails(
 	installerId: string,
 	input: InsuranceInput
-): Promise<{ ok: true; paused: boolean } | VettingProblem> {
+): Promise<{ ok: true; paused: boolean } | Refusal> {
 	return withMail(async (tx, mail) => {
 		const row = await lockProfile(tx, installerId);
-		if (!row) return problem(404, 'Save your application details first.');
+		if (!row) return refuse(409, 'Save your application details first.');
 		const { profile } = row;
 		const stage = stageOf(profile);
 		if (stage === 'applied' || stage === 'rejected') {
-			return problem(409, 'Your application is with an admin; it cannot be changed just now.');
+			return refuse(409, 'Your application is with an admin; it cannot be changed just now.');
 		}
 		const changed =
 			profile.insurer !== input.insurer ||
@@ -266,16 +266,16 @@ export async function getApplicationStatus(installerId: string) {
  */
 export async function submitApplication(installerId: string): Promise<VettingOutcome> {
 	const status = await getApplicationStatus(installerId);
-	if (!status.profile) return problem(404, 'Fill in the application first.');
+	if (!status.profile) return refuse(409, 'Fill in the application first.');
 	if (status.missing.length > 0) {
-		return problem(400, `Still missing: ${status.missing.map((m) => m.what).join('; ')}.`);
+		return refuse(400, `Still missing: ${status.missing.map((m) => m.what).join('; ')}.`);
 	}
 	return withMail(async (tx, mail) => {
 		const row = await lockProfile(tx, installerId);
-		if (!row) return problem(404, 'Fill in the application first.');
+		if (!row) return refuse(409, 'Fill in the application first.');
 		const stage = stageOf(row.profile);
 		const to = nextStatus(stage, 'submit');
-		if (!to) return problem(409, 'This application has already been sent.');
+		if (!to) return refuse(409, 'This application has already been sent.');
 		await tx
 			.update(installerProfile)
 			.set({ vettingStatus: to, submittedAt: new Date(), updatedAt: new Date() })

@@ -15,13 +15,18 @@ import {
 } from '$lib/forms/job';
 import { db, type Tx } from './db';
 import { job, jobPhoto, quote, type Job } from './db/schema';
+import { isRefusal, NOT_YOUR_JOB, refuse, type Refusal } from './refusal';
 
 const uuid = z.uuid();
 
 /** Statuses in which an owner may still change the request (and only while no quote is in). */
 const EDITABLE = new Set<Job['status']>(['drafting', 'collecting_quotes']);
 
-export type JobChange = 'ok' | 'not-found' | 'locked';
+/** A change that went through. */
+export type JobChange = { ok: true } | Refusal;
+const DONE = { ok: true } as const;
+
+const LOCKED = 'This job has a quote or a booking now, so its details can no longer change.';
 
 // A correlated count; `$count` qualifies the columns (a bare sql`` would not, and inside the
 // subquery an unqualified "id" would mean the quote's own id).
@@ -49,20 +54,16 @@ export async function getOwnedJob(jobId: string, ownerId: string) {
 }
 
 /** Locks the owner's job for a change and says whether it may still be edited. */
-async function lockEditable(
-	tx: Tx,
-	jobId: string,
-	ownerId: string
-): Promise<Job | Exclude<JobChange, 'ok'>> {
-	if (!uuid.safeParse(jobId).success) return 'not-found';
+async function lockEditable(tx: Tx, jobId: string, ownerId: string): Promise<Job | Refusal> {
+	if (!uuid.safeParse(jobId).success) return refuse(404, NOT_YOUR_JOB);
 	const [row] = await tx
 		.select()
 		.from(job)
 		.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
 		.for('update');
-	if (!row) return 'not-found';
+	if (!row) return refuse(404, NOT_YOUR_JOB);
 	const [quotes] = await tx.select({ n: count() }).from(quote).where(eq(quote.jobId, jobId));
-	if (!EDITABLE.has(row.status) || (quotes?.n ?? 0) > 0) return 'locked';
+	if (!EDITABLE.has(row.status) || (quotes?.n ?? 0) > 0) return refuse(409, LOCKED);
 	return row;
 }
 
@@ -76,7 +77,7 @@ export async function saveJobStep(
 ): Promise<JobChange> {
 	return db.transaction(async (tx) => {
 		const locked = await lockEditable(tx, jobId, ownerId);
-		if (typeof locked === 'string') return locked;
+		if (isRefusal(locked)) return locked;
 		await tx
 			.update(job)
 			.set({
@@ -86,7 +87,7 @@ export async function saveJobStep(
 				updatedAt: new Date()
 			})
 			.where(eq(job.id, jobId));
-		return 'ok';
+		return DONE;
 	});
 }
 
@@ -124,12 +125,17 @@ export async function postJob(
 	jobId: string,
 	ownerId: string,
 	now = new Date()
-): Promise<JobChange | PostProblem[]> {
+): Promise<JobChange> {
 	return db.transaction(async (tx) => {
 		const locked = await lockEditable(tx, jobId, ownerId);
-		if (typeof locked === 'string') return locked;
+		if (isRefusal(locked)) return locked;
 		const problems = draftProblems(locked, now);
-		if (problems.length > 0) return problems;
+		if (problems.length > 0) {
+			// Each problem names the step that fixes it.
+			return refuse(400, problems[0]!.message, {
+				fields: Object.fromEntries(problems.map((p) => [p.step, p.message]))
+			});
+		}
 		const request = jobRequestSchema.parse(locked.draft);
 		const scope = computeScope(request);
 		await tx
@@ -149,7 +155,7 @@ export async function postJob(
 				updatedAt: now
 			})
 			.where(eq(job.id, jobId));
-		return 'ok';
+		return DONE;
 	});
 }
 
@@ -198,14 +204,19 @@ export async function withdrawJob(
 	reason: string
 ): Promise<JobChange> {
 	return db.transaction(async (tx) => {
-		if (!uuid.safeParse(jobId).success) return 'not-found';
+		if (!uuid.safeParse(jobId).success) return refuse(404, NOT_YOUR_JOB);
 		const [row] = await tx
 			.select({ status: job.status })
 			.from(job)
 			.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
 			.for('update');
-		if (!row) return 'not-found';
-		if (!EDITABLE.has(row.status)) return 'locked';
+		if (!row) return refuse(404, NOT_YOUR_JOB);
+		if (!EDITABLE.has(row.status)) {
+			return refuse(
+				409,
+				'A booked job cannot be withdrawn here; contact the installer or raise a dispute.'
+			);
+		}
 		await tx
 			.update(job)
 			.set({
@@ -215,7 +226,7 @@ export async function withdrawJob(
 				updatedAt: new Date()
 			})
 			.where(eq(job.id, jobId));
-		return 'ok';
+		return DONE;
 	});
 }
 
@@ -289,16 +300,16 @@ export async function setJobPhoto(
 	ownerId: string,
 	kind: PhotoKind,
 	stored?: { objectKey: string; thumbKey: string; width: number; height: number; bytes: number }
-): Promise<Exclude<JobChange, 'ok'> | { displaced: string[] }> {
+): Promise<Refusal | { ok: true; displaced: string[] }> {
 	return db.transaction(async (tx) => {
 		const locked = await lockEditable(tx, jobId, ownerId);
-		if (typeof locked === 'string') return locked;
+		if (isRefusal(locked)) return locked;
 		const [old] = await tx
 			.delete(jobPhoto)
 			.where(and(eq(jobPhoto.jobId, jobId), eq(jobPhoto.kind, kind)))
 			.returning({ objectKey: jobPhoto.objectKey, thumbKey: jobPhoto.thumbKey });
 		if (stored) await tx.insert(jobPhoto).values({ jobId, kind, ...stored });
-		return { displaced: old ? [old.objectKey, old.thumbKey] : [] };
+		return { ok: true, displaced: old ? [old.objectKey, old.thumbKey] : [] };
 	});
 }
 

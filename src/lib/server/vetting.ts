@@ -32,8 +32,10 @@ import {
 	type InstallerProfile,
 	type VettingStatus
 } from './db/schema';
+import { DECISION_LABELS } from '$lib/labels';
 import { appUrl } from './app-url';
 import { withMail } from './mail';
+import { refuse, type Refusal } from './refusal';
 import type { EmailTemplate, VettingMailData } from './mail-templates';
 
 /** Smallest accepted public liability cover, from MIN_PUBLIC_LIABILITY_CENTS or the default. */
@@ -46,15 +48,8 @@ export function minCoverCents(): number {
 
 const statusPageUrl = () => appUrl('/installer');
 
-/** A failed decision or submission, with the HTTP status a page should answer with. */
-export type VettingProblem = { ok: false; status: 400 | 404 | 409; message: string };
-export type VettingOutcome = { ok: true } | VettingProblem;
-
-export const problem = (status: VettingProblem['status'], message: string): VettingProblem => ({
-	ok: false,
-	status,
-	message
-});
+/** A decision or submission that went through, or why not. */
+export type VettingOutcome = { ok: true } | Refusal;
 
 export async function lockProfile(tx: Tx, installerId: string) {
 	const [row] = await tx
@@ -134,31 +129,31 @@ function decisionEmail(
 export async function decideApplication(input: DecisionInput): Promise<VettingOutcome> {
 	const message = input.message?.trim() ?? '';
 	if (DECISIONS_NEEDING_MESSAGE.includes(input.decision) && message === '') {
-		return problem(400, 'Write the message or reason the installer will read.');
+		return refuse(400, 'Write the message or reason the installer will read.');
 	}
 	return withMail(async (tx, mail) => {
 		const [admin] = await tx
 			.select({ role: user.role })
 			.from(user)
 			.where(eq(user.id, input.adminId));
-		if (admin?.role !== 'admin') return problem(409, 'Only an admin can decide applications.');
+		if (admin?.role !== 'admin') return refuse(409, 'Only an admin can decide applications.');
 		const row = await lockProfile(tx, input.installerId);
-		if (!row) return problem(404, 'There is no such application.');
+		if (!row) return refuse(404, 'There is no such application.');
 		const { profile } = row;
 		const stage = stageOf(profile);
 		const paused = profile.pausedReason !== null;
-		if (stage === 'draft') return problem(409, 'This application has not been sent yet.');
+		if (stage === 'draft') return refuse(409, 'This application has not been sent yet.');
 		if (stage !== input.expectedStatus) {
-			return problem(
+			return refuse(
 				409,
 				'Another admin changed this application while you were looking at it. Reload to see where it stands now.'
 			);
 		}
 		const to = nextStatus(stage, input.decision, paused);
 		if (!to) {
-			return problem(
+			return refuse(
 				409,
-				`“${input.decision}” is not possible for an application in this standing.`
+				`“${DECISION_LABELS[input.decision]}” is not possible for an application in this standing.`
 			);
 		}
 		const facts = {
@@ -171,11 +166,11 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
 		if (input.decision === 'approve') {
 			const problems = approvalProblems(input.checklist, facts);
 			if (!profile.abn || !isValidAbn(profile.abn)) problems.push('The ABN fails the check.');
-			if (problems.length > 0) return problem(400, problems.join(' '));
+			if (problems.length > 0) return refuse(400, problems.join(' '));
 		}
 		if (input.decision === 'reinstate' || input.decision === 'approve-insurance') {
 			const problems = insuranceProblems(facts);
-			if (problems.length > 0) return problem(400, problems.join(' '));
+			if (problems.length > 0) return refuse(400, problems.join(' '));
 		}
 		const liftsPause = ['approve', 'reinstate', 'approve-insurance'].includes(input.decision);
 		await tx

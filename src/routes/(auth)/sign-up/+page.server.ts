@@ -1,10 +1,11 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { setError, superValidate } from 'sveltekit-superforms';
+import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { signUpSchema } from '$lib/forms/auth';
 import { createAccount } from '$lib/server/accounts';
 import { startSession } from '$lib/server/auth';
 import { homeFor } from '$lib/server/guards';
+import { refusalMessage } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
@@ -20,14 +21,7 @@ export const actions = {
 		form.data.password = ''; // never echo a password back to the page
 		if (!form.valid) return fail(400, { form });
 		const result = await createAccount({ ...form.data, password });
-		if (result === 'email-taken') {
-			return setError(
-				form,
-				'email',
-				'An account already uses this address. Sign in, or reset the password from the sign-in page.',
-				{ status: 409 }
-			);
-		}
+		if (!result.ok) return refusalMessage(form, result);
 		await startSession(cookies, result.user.id);
 		redirect(303, '/verify-email?sent=1');
 	}

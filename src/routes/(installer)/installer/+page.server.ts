@@ -1,6 +1,7 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
+import { refusalFail } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
@@ -27,7 +28,7 @@ export const actions = {
 	submit: async () => {
 		const installer = requireRole('installer');
 		const result = await submitApplication(installer.id);
-		if (!result.ok) return fail(result.status, { problem: result.message });
+		if (!result.ok) return refusalFail(result);
 		redirect(303, '/installer?sent=1');
 	}
 } satisfies Actions;

@@ -1,9 +1,10 @@
 import { fail } from '@sveltejs/kit';
-import { message, setError, superValidate } from 'sveltekit-superforms';
+import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { adminInviteSchema } from '$lib/forms/auth';
 import { createAdminAccount, listAdmins } from '$lib/server/accounts';
 import { requireRole } from '$lib/server/guards';
+import { refusalMessage } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
@@ -18,9 +19,7 @@ export const actions = {
 		const form = await superValidate(request, zod4(adminInviteSchema));
 		if (!form.valid) return fail(400, { form });
 		const result = await createAdminAccount(admin, form.data);
-		if (result === 'email-taken') {
-			return setError(form, 'email', 'An account already uses this address.', { status: 409 });
-		}
+		if (!result.ok) return refusalMessage(form, result);
 		return message(
 			form,
 			`${result.user.displayName} is an admin now; we e-mailed them a link to set a password.`

@@ -6,6 +6,7 @@ import { GeocoderUnavailable, searchPlaces } from '$lib/server/geocoding';
 import { requireRole } from '$lib/server/guards';
 import { getInstallerProfile, saveApplication, type BasePlace } from '$lib/server/installers';
 import { INSTALLER_SKILLS, stageOf, type InstallerSkill } from '$lib/vetting';
+import { refusalMessage } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 const workModeOf = (p: {
@@ -81,11 +82,7 @@ export const actions = {
 			},
 			place
 		);
-		if (result === 'locked') {
-			return setError(form, '', 'Your application is with an admin; it cannot be changed now.', {
-				status: 409
-			});
-		}
+		if (!result.ok) return refusalMessage(form, result);
 		redirect(303, '/installer/documents');
 	}
 } satisfies Actions;

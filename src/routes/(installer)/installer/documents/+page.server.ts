@@ -8,6 +8,7 @@ import { addInstallerDocument, listInstallerDocuments } from '$lib/server/docume
 import { getInstallerProfile, saveInsuranceDetails } from '$lib/server/installers';
 import { DOCUMENT_TYPES, IMAGE_TYPES } from '$lib/uploads';
 import { DOCUMENT_KINDS, type DocumentKind } from '$lib/vetting';
+import { refusalMessage } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
@@ -38,7 +39,7 @@ export const actions = {
 			...rest,
 			coverCents: coverDollars * 100
 		});
-		if (!result.ok) return message(form, result.message, { status: result.status });
+		if (!result.ok) return refusalMessage(form, result);
 		return message(
 			form,
 			result.paused

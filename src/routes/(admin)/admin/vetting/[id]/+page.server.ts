@@ -1,9 +1,10 @@
 import { error, fail, redirect } from '@sveltejs/kit';
-import { message, superValidate } from 'sveltekit-superforms';
+import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { decisionSchema } from '$lib/forms/vetting';
 import { requireRole } from '$lib/server/guards';
 import { decideApplication, getApplicationForReview } from '$lib/server/vetting';
+import { refusalMessage } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -32,7 +33,7 @@ export const actions = {
 			message: text,
 			checklist
 		});
-		if (!result.ok) return message(form, result.message, { status: result.status });
+		if (!result.ok) return refusalMessage(form, result);
 		redirect(303, `/admin/vetting/${params.id}?decided=${decision}`);
 	}
 } satisfies Actions;

@@ -4,10 +4,10 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { threadMessageSchema } from '$lib/forms/thread';
 import { requireRole } from '$lib/server/guards';
 import { listJobPhotos } from '$lib/server/jobs';
-import { sendThreadMessage } from '$lib/server/thread-actions';
+import { refusalFail, refusalMessage } from '$lib/server/respond';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { formatSlot } from '$lib/schedule';
-import { listJobMessages } from '$lib/server/threads';
+import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuoteRevisions, submitQuote, withdrawQuote } from '$lib/server/quotes';
 import { quoteFormSchema, toQuoteInput } from './quote-form';
 import { quoteFormDefaults } from './quote-defaults';
@@ -91,9 +91,9 @@ export const actions = {
 		}
 		const result = await submitQuote(installer.id, params.id, input);
 		if (!result.ok) {
-			if (result.status === 404) error(404, NOT_FOUND);
-			return message(form, (result.problems ?? [result.message]).join(' '), {
-				status: result.status
+			return refusalMessage(form, {
+				...result,
+				message: (result.problems ?? [result.message]).join(' ')
 			});
 		}
 		const masked = result.masked.length > 0 ? '&masked=1' : '';
@@ -102,20 +102,20 @@ export const actions = {
 	withdraw: async ({ params }) => {
 		const { installer } = await context();
 		const result = await withdrawQuote(installer.id, params.id);
-		if (!result.ok) return fail(result.status, { problem: result.message });
+		if (!result.ok) return refusalFail(result);
 		redirect(303, `/installer/jobs/${params.id}`);
 	},
 	ask: async ({ request, params }) => {
 		const { installer } = await context();
 		const askForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!askForm.valid) return fail(400, { askForm });
-		const sent = await sendThreadMessage(
-			askForm,
-			{ jobId: params.id, installerId: installer.id },
+		const sent = await postJobMessage(
+			params.id,
+			installer.id,
 			{ id: installer.id, role: 'installer' },
-			NOT_FOUND
+			askForm.data.body
 		);
-		if ('refusal' in sent) return sent.refusal;
+		if (!sent.ok) return refusalMessage(askForm, sent);
 		const masked = sent.masked.length > 0 ? '?masked=1' : '';
 		redirect(303, `/installer/jobs/${params.id}${masked}#questions`);
 	}

@@ -1,15 +1,17 @@
 import { error, fail, redirect } from '@sveltejs/kit';
-import { message, superValidate } from 'sveltekit-superforms';
+import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { withdrawSchema } from '$lib/forms/job';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob, listJobPhotos, withdrawJob } from '$lib/server/jobs';
+import { NOT_YOUR_JOB } from '$lib/server/refusal';
+import { refusalMessage } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, url }) => {
 	const owner = requireRole('owner');
 	const job = await getOwnedJob(params.id, owner.id);
-	if (!job) error(404, 'There is no such job among yours.');
+	if (!job) error(404, NOT_YOUR_JOB);
 	const [photos, withdrawForm] = await Promise.all([
 		listJobPhotos(job.id),
 		superValidate(zod4(withdrawSchema), { errors: false })
@@ -24,14 +26,7 @@ export const actions = {
 		const form = await superValidate(request, zod4(withdrawSchema));
 		if (!form.valid) return fail(400, { withdrawForm: form });
 		const result = await withdrawJob(params.id, owner.id, form.data.reason);
-		if (result === 'not-found') error(404, 'There is no such job among yours.');
-		if (result === 'locked') {
-			return message(
-				form,
-				'A booked job cannot be withdrawn here; contact the installer or raise a dispute.',
-				{ status: 409 }
-			);
-		}
+		if (!result.ok) return refusalMessage(form, result);
 		redirect(303, `/owner/jobs/${params.id}`);
 	}
 } satisfies Actions;

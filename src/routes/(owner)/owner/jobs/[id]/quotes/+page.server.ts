@@ -7,6 +7,7 @@ import { getOwnedJob } from '$lib/server/jobs';
 import { listAskingInstallers } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
 import { COMPARISON_SORTS, compareQuotes, type ComparisonSort } from './comparison';
+import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import type { PageServerLoad } from './$types';
 
 const sortSchema = z.object({
@@ -23,7 +24,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	// A hold that ran out is lapsed on sight, so the owner never sees a stale "booked".
 	await lapseExpiredHolds({ jobId: params.id });
 	const job = await getOwnedJob(params.id, owner.id);
-	if (!job) error(404, 'There is no such job among yours.');
+	if (!job) error(404, NOT_YOUR_JOB);
 	const { sort, dir: asked } = sortSchema.parse(Object.fromEntries(url.searchParams));
 	const dir = asked ?? (DESCENDING_FIRST.includes(sort) ? 'desc' : 'asc');
 	const [quotes, asking, booking] = await Promise.all([

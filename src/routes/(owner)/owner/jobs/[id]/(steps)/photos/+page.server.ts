@@ -1,7 +1,7 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { photoKindSchema, type PhotoKind } from '$lib/forms/job';
 import { listJobPhotos, setJobPhoto } from '$lib/server/jobs';
-import { loadEditableJob } from '$lib/server/owner-jobs';
+import { loadEditableJob } from '../editable-job';
 import { deleteObject } from '$lib/server/storage';
 import { discardUpload, storeUpload } from '$lib/server/uploads';
 import type { Actions, PageServerLoad } from './$types';
@@ -35,10 +35,10 @@ export const actions = {
 			await discardUpload(outcome.stored);
 			throw err;
 		}
-		if (typeof result === 'string') {
+		if (!result.ok) {
 			await discardUpload(outcome.stored);
-			if (result === 'not-found') error(404, 'There is no such job among yours.');
-			return refuse(kind.data, 'This job can no longer change.', 409);
+			if (result.status === 404) error(404, result.message);
+			return refuse(kind.data, result.message, result.status);
 		}
 		await Promise.allSettled(result.displaced.map((key) => deleteObject(key)));
 		return { kind: kind.data, saved: true };
@@ -48,8 +48,10 @@ export const actions = {
 		const kind = photoKindSchema.safeParse((await request.formData()).get('kind'));
 		if (!kind.success) return refuse('', 'Say which photo to remove.');
 		const result = await setJobPhoto(job.id, owner.id, kind.data);
-		if (result === 'not-found') error(404, 'There is no such job among yours.');
-		if (result === 'locked') return refuse(kind.data, 'This job can no longer change.', 409);
+		if (!result.ok) {
+			if (result.status === 404) error(404, result.message);
+			return refuse(kind.data, result.message, result.status);
+		}
 		await Promise.allSettled(result.displaced.map((key) => deleteObject(key)));
 		return { kind: kind.data, removed: true };
 	},

@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { placeStepSchema, type TimeWindow } from '$lib/forms/job';
 import { GeocoderUnavailable, reversePlace, searchPlaces } from '$lib/server/geocoding';
 import { checkPreferredDates, saveJobStep } from '$lib/server/jobs';
-import { finishStep, loadEditableJob } from '$lib/server/owner-jobs';
+import { finishStep, loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

@@ -1,7 +1,8 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import type { JobStep } from '$lib/forms/job';
 import { computeScope, jobRequestSchema } from '$lib/scope';
 import { draftProblems, postJob } from '$lib/server/jobs';
-import { loadEditableJob } from '$lib/server/owner-jobs';
+import { loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -21,18 +22,14 @@ export const actions = {
 	post: async ({ params }) => {
 		const { owner } = await loadEditableJob(params.id);
 		const result = await postJob(params.id, owner.id);
-		if (result === 'not-found') error(404, 'There is no such job among yours.');
-		if (result === 'locked') {
-			return fail(409, {
-				problems: [
-					{
-						step: 'review',
-						message: 'This job has a quote or booking now and can no longer change.'
-					}
-				]
-			});
+		if (!result.ok) {
+			if (result.status === 404) error(404, result.message);
+			// A refused post names each step to fix; a locked job has only its message.
+			const problems = Object.entries(result.fields ?? { review: result.message }).map(
+				([step, message]) => ({ step: step as JobStep, message })
+			);
+			return fail(result.status, { problems });
 		}
-		if (Array.isArray(result)) return fail(400, { problems: result });
 		redirect(303, `/owner/jobs/${params.id}?posted=1`);
 	}
 } satisfies Actions;

@@ -3,7 +3,7 @@ import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { vehicleStepSchema } from '$lib/forms/job';
 import { saveJobStep } from '$lib/server/jobs';
-import { finishStep, loadEditableJob } from '$lib/server/owner-jobs';
+import { finishStep, loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

@@ -1,14 +1,14 @@
 import { error, fail, redirect } from '@sveltejs/kit';
-import { message, superValidate } from 'sveltekit-superforms';
+import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { threadMessageSchema } from '$lib/forms/thread';
 import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
-import { sendThreadMessage } from '$lib/server/thread-actions';
+import { refusalMessage } from '$lib/server/respond';
 import { formatSlot } from '$lib/schedule';
-import { listJobMessages } from '$lib/server/threads';
+import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -74,23 +74,20 @@ export const actions = {
 		const bookForm = await superValidate(request, zod4(bookSchema));
 		if (!bookForm.valid) return fail(400, { bookForm });
 		const result = await bookQuote(owner.id, params.id, bookForm.data.quoteId, bookForm.data.slot);
-		if (!result.ok) {
-			if (result.status === 404) error(404, NOT_FOUND);
-			return message(bookForm, result.message, { status: result.status });
-		}
+		if (!result.ok) return refusalMessage(bookForm, result);
 		redirect(303, `/owner/bookings/${result.bookingId}`);
 	},
 	reply: async ({ request, params }) => {
 		const owner = requireRole('owner');
 		const replyForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!replyForm.valid) return fail(400, { replyForm });
-		const sent = await sendThreadMessage(
-			replyForm,
-			{ jobId: params.id, installerId: params.installerId },
+		const sent = await postJobMessage(
+			params.id,
+			params.installerId,
 			{ id: owner.id, role: 'owner' },
-			NOT_FOUND
+			replyForm.data.body
 		);
-		if ('refusal' in sent) return sent.refusal;
+		if (!sent.ok) return refusalMessage(replyForm, sent);
 		redirect(303, `/owner/jobs/${params.id}/quotes/${params.installerId}?replied=1#questions`);
 	}
 } satisfies Actions;
