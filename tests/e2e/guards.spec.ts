@@ -51,3 +51,19 @@ test('an admin sees the overview and adds another admin, who is e-mailed', async
 	const mail = await waitForMail(email, /made a Tapline admin/);
 	expect(mail.text).toContain('/reset-password?token=');
 });
+
+test('a malformed id is a 404 from the router, before any page code runs', async ({
+	ownerPage: page
+}) => {
+	for (const path of [
+		'/owner/jobs/not-a-job',
+		'/owner/jobs/1%27%20or%201=1',
+		'/owner/bookings/12345',
+		'/installers/nobody',
+		'/media/job-photos/not-a-photo/thumb',
+		'/media/installer-documents/not-a-document'
+	]) {
+		const res = await page.goto(path);
+		expect(res?.status(), path).toBe(404);
+	}
+});

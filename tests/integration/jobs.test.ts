@@ -122,7 +122,7 @@ describe('job drafts', () => {
 			status: 404
 		});
 		expect(await withdrawJob(id, stranger, 'not mine')).toMatchObject({ ok: false, status: 404 });
-		expect(await getOwnedJob('not-a-uuid', owner)).toBeNull();
+		expect(await getOwnedJob(crypto.randomUUID(), owner)).toBeNull();
 		const [row] = await db.select().from(job).where(eq(job.id, id));
 		expect(row?.draft).toEqual({});
 	});

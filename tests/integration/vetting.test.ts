@@ -292,7 +292,7 @@ describe('document access', () => {
 		expect(await findViewableDocument(null, privateId)).toBe('sign-in');
 		// Unknown ids tell an anonymous prober nothing more than a real one.
 		expect(await findViewableDocument(null, crypto.randomUUID())).toBe('sign-in');
-		expect(await findViewableDocument({ id: owner.id, role: 'owner' }, 'not-a-uuid')).toBe(
+		expect(await findViewableDocument({ id: owner.id, role: 'owner' }, crypto.randomUUID())).toBe(
 			'not-found'
 		);
 		const gallery = await findViewableDocument(null, galleryId);

@@ -70,21 +70,18 @@ export async function listInstallerDocuments(installerId: string, kinds?: Docume
  * probed anonymously.
  */
 export async function findViewableDocument(viewer: DocumentViewer | null, id: string) {
-	const valid = /^[0-9a-f-]{36}$/i.test(id);
-	const [doc] = valid
-		? await db
-				.select({
-					id: installerDocument.id,
-					installerId: installerDocument.installerId,
-					kind: installerDocument.kind,
-					objectKey: installerDocument.objectKey,
-					thumbKey: installerDocument.thumbKey,
-					contentType: installerDocument.contentType,
-					originalName: installerDocument.originalName
-				})
-				.from(installerDocument)
-				.where(eq(installerDocument.id, id))
-		: [];
+	const [doc] = await db
+		.select({
+			id: installerDocument.id,
+			installerId: installerDocument.installerId,
+			kind: installerDocument.kind,
+			objectKey: installerDocument.objectKey,
+			thumbKey: installerDocument.thumbKey,
+			contentType: installerDocument.contentType,
+			originalName: installerDocument.originalName
+		})
+		.from(installerDocument)
+		.where(eq(installerDocument.id, id));
 	if (!doc) return viewer ? ('not-found' as const) : ('sign-in' as const);
 	const decision = canViewInstallerDocument(viewer, doc);
 	return decision === 'allowed' ? doc : decision;
