@@ -5,6 +5,7 @@
  */
 import { hash } from '@node-rs/argon2';
 import { computeScope, jobRequestSchema } from '../src/lib/scope';
+import { SAMPLE_REQUEST } from '../seed/sample-request';
 
 interface Stats {
 	name: string;
@@ -45,21 +46,15 @@ async function measureAsync(
 	return { name, runs, p50: at(0.5), p95: at(0.95), p99: at(0.99) };
 }
 
+// The shared sample request, as a wagon with an AGM battery and stop-start.
 const request = {
-	make: 'Demo',
+	...SAMPLE_REQUEST,
 	model: 'Wagon',
 	year: '2019',
 	bodyStyle: 'wagon',
-	fuseFamily: 'mini',
 	batteryType: 'agm',
 	batteryAh: 70,
-	startStop: true,
-	hybridOrEv: false,
-	curtainAirbags: 'yes',
-	cameras: 'front-rear',
-	cameraSupply: 'owner',
-	power: 'hardwired-parking',
-	removeOldUnit: false
+	startStop: true
 };
 
 const baseline = measure('baseline: JSON round trip of the request', 20_000, () =>

@@ -6,8 +6,10 @@
 import { eq } from 'drizzle-orm';
 import type { NodePgDatabase } from 'drizzle-orm/node-postgres';
 import { job, user } from '../src/lib/server/db/schema';
-import { computeScope, type JobRequestInput } from '../src/lib/scope';
+import type { JobRequestInput } from '../src/lib/scope';
 import { suburbPoint } from './scenario';
+import { postedJobColumns } from '../src/lib/posted-job';
+import { SAMPLE_REQUEST } from './sample-request';
 
 interface DemoJob {
 	ownerEmail: string;
@@ -18,23 +20,6 @@ interface DemoJob {
 	/** Preferred dates as days after seeding. */
 	inDays: number[];
 }
-
-const BASE: JobRequestInput = {
-	make: 'Demo',
-	model: 'Hatch',
-	year: '2018',
-	bodyStyle: 'hatchback',
-	fuseFamily: 'mini',
-	batteryType: 'flooded',
-	batteryAh: 50,
-	startStop: false,
-	hybridOrEv: false,
-	curtainAirbags: 'yes',
-	cameras: 'front-rear',
-	cameraSupply: 'owner',
-	power: 'hardwired-parking',
-	removeOldUnit: false
-};
 
 /** The demo jobs; the first is the one the end-to-end marketplace test quotes and books. */
 export const DEMO_JOBS: readonly DemoJob[] = [
@@ -123,20 +108,14 @@ export async function seedDemoJobs(db: NodePgDatabase, today: Date): Promise<voi
 			.from(user)
 			.where(eq(user.email, demo.ownerEmail));
 		if (!owner) throw new Error(`No demo owner ${demo.ownerEmail}`);
-		const request: JobRequestInput = { ...BASE, ...demo.request };
-		const scope = computeScope(request);
+		const request: JobRequestInput = { ...SAMPLE_REQUEST, ...demo.request };
 		const place = suburbPoint(demo.suburb);
 		await db.insert(job).values({
 			ownerId: owner.id,
 			status: 'collecting_quotes',
 			draftStep: 'review',
 			draft: { ...request },
-			request,
-			scope,
-			title: `${request.year} ${request.make} ${request.model}`,
-			bodyStyle: request.bodyStyle,
-			cameras: request.cameras,
-			power: request.power,
+			...postedJobColumns(request),
 			locationMode: demo.locationMode,
 			suburb: place.name,
 			postcode: place.postcode,
@@ -147,8 +126,6 @@ export async function seedDemoJobs(db: NodePgDatabase, today: Date): Promise<voi
 				date: day(today, d),
 				window: 'morning' as const
 			})),
-			priceLowCents: scope.price.totalIncGst.min,
-			priceHighCents: scope.price.totalIncGst.max,
 			submittedAt: today
 		});
 	}

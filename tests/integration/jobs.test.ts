@@ -1,3 +1,4 @@
+import { UNTITLED_JOB } from '$lib/posted-job';
 import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
@@ -176,7 +177,7 @@ describe('job drafts', () => {
 		expect(secondPage.rows).toHaveLength(2);
 		const all = [...firstPage.rows, ...secondPage.rows].map((r) => r.id);
 		expect(new Set(all).size).toBe(12);
-		expect(firstPage.rows.every((r) => r.title === 'Untitled draft' && r.quotes === 0)).toBe(true);
+		expect(firstPage.rows.every((r) => r.title === UNTITLED_JOB && r.quotes === 0)).toBe(true);
 		const other = await makeUser('owner');
 		expect(
 			(await listOwnerJobs(other, { sort: 'quotes', dir: 'asc', page: 1, pageSize: 10 })).total

@@ -4,8 +4,10 @@ import { db } from '$lib/server/db';
 import { installerHours, installerProfile, job, user } from '$lib/server/db/schema';
 import type { QuoteInput } from '$lib/server/quotes';
 import type { LatLng } from '$lib/geo';
-import { computeScope, type JobRequestInput } from '$lib/scope';
+import { type JobRequestInput } from '$lib/scope';
 import { formatInZone, localToUtc } from '$lib/time';
+import { SAMPLE_REQUEST } from '../../seed/sample-request';
+import { postedJobColumns } from '$lib/posted-job';
 
 export const ZONE = 'Australia/Adelaide';
 export const ADELAIDE: LatLng = { lat: -34.9285, lng: 138.6007 };
@@ -72,22 +74,8 @@ export async function makeInstaller(options: InstallerOptions = {}) {
 	return account;
 }
 
-export const HATCH_REQUEST: JobRequestInput = {
-	make: 'Demo',
-	model: 'Hatch',
-	year: '2018',
-	bodyStyle: 'hatchback',
-	fuseFamily: 'mini',
-	batteryType: 'flooded',
-	batteryAh: 50,
-	startStop: false,
-	hybridOrEv: false,
-	curtainAirbags: 'yes',
-	cameras: 'front-rear',
-	cameraSupply: 'owner',
-	power: 'hardwired-parking',
-	removeOldUnit: false
-};
+/** The shared sample request (see seed/sample-request.ts). */
+export const HATCH_REQUEST: JobRequestInput = SAMPLE_REQUEST;
 
 /** An open job, posted, at a point. */
 export async function makeOpenJob(
@@ -100,18 +88,12 @@ export async function makeOpenJob(
 ) {
 	const owner = options.ownerId ? { id: options.ownerId } : await makeUser('owner');
 	const request = { ...HATCH_REQUEST, ...options.request } as JobRequestInput;
-	const scope = computeScope(request);
 	const [row] = await db
 		.insert(job)
 		.values({
 			ownerId: owner.id,
 			status: 'collecting_quotes',
-			request,
-			scope,
-			title: `${request.year} ${request.make} ${request.model}`,
-			bodyStyle: request.bodyStyle,
-			cameras: request.cameras,
-			power: request.power,
+			...postedJobColumns(request),
 			locationMode: options.locationMode ?? 'mobile',
 			suburb: 'Adelaide',
 			postcode: '5000',
@@ -119,8 +101,6 @@ export async function makeOpenJob(
 			longitude: at.lng,
 			addressLine: '1 Secret Street',
 			preferredWindows: [{ date: localDay(5), window: 'morning' }],
-			priceLowCents: scope.price.totalIncGst.min,
-			priceHighCents: scope.price.totalIncGst.max,
 			submittedAt: new Date()
 		})
 		.returning();

@@ -14,6 +14,7 @@ import { booking, installerProfile, job, quote, user } from './db/schema';
 import { appUrl } from './app-url';
 import { withMail, type Mail } from './mail';
 import { refuse, type Refusal } from './refusal';
+import { titleOrUntitled } from '$lib/posted-job';
 
 /** How long a provisional booking holds the installer's slot while the owner pays (Tapline's choice). */
 export const HOLD_MINUTES = 30;
@@ -118,7 +119,7 @@ export async function bookQuote(
 				.set({ status: 'declined', updatedAt: now })
 				.where(and(eq(quote.jobId, jobId), ne(quote.id, quoteId), eq(quote.status, 'live')))
 				.returning({ installerId: quote.installerId });
-			const title = locked.title ?? 'dash camera job';
+			const title = titleOrUntitled(locked.title);
 			if (declined.length > 0) {
 				const people = await tx
 					.select({ email: user.email, businessName: installerProfile.businessName })
@@ -216,7 +217,7 @@ export async function lapseHolds(
 				template: 'booking-lapsed',
 				data: {
 					businessName: person.businessName,
-					title: j?.title ?? 'dash camera job',
+					title: titleOrUntitled(j?.title),
 					slot: formatSlot(
 						{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
 						person.timeZone

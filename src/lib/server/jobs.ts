@@ -5,7 +5,7 @@
  */
 import { and, asc, count, desc, eq, sql, type SQL } from 'drizzle-orm';
 import { formatInZone } from '$lib/time';
-import { computeScope, jobRequestSchema } from '$lib/scope';
+import { jobRequestSchema } from '$lib/scope';
 import {
 	preferredDateProblem,
 	type JobStep,
@@ -15,6 +15,7 @@ import {
 import { db, type Tx } from './db';
 import { job, jobPhoto, quote, type Job } from './db/schema';
 import { isRefusal, NOT_YOUR_JOB, refuse, type Refusal } from './refusal';
+import { jobTitle, postedJobColumns } from '$lib/posted-job';
 
 /** Statuses in which an owner may still change the request (and only while no quote is in). */
 const EDITABLE = new Set<Job['status']>(['drafting', 'collecting_quotes']);
@@ -132,19 +133,11 @@ export async function postJob(
 			});
 		}
 		const request = jobRequestSchema.parse(locked.draft);
-		const scope = computeScope(request);
 		await tx
 			.update(job)
 			.set({
 				status: 'collecting_quotes',
-				request,
-				scope,
-				title: `${request.year} ${request.make} ${request.model}`,
-				bodyStyle: request.bodyStyle,
-				cameras: request.cameras,
-				power: request.power,
-				priceLowCents: scope.price.totalIncGst.min,
-				priceHighCents: scope.price.totalIncGst.max,
+				...postedJobColumns(request),
 				draftStep: 'review',
 				submittedAt: locked.submittedAt ?? now,
 				updatedAt: now
@@ -263,9 +256,7 @@ export async function listOwnerJobs(
 	return {
 		rows: rows.map(({ draft, ...r }) => ({
 			...r,
-			title:
-				r.title ??
-				([draft.year, draft.make, draft.model].filter(Boolean).join(' ') || 'Untitled draft')
+			title: r.title ?? jobTitle(draft)
 		})),
 		total: total?.n ?? 0
 	};

@@ -23,6 +23,7 @@ import { db } from './db';
 import { booking, installerProfile, job, jobNotice, quote, user, type Job } from './db/schema';
 import { appUrl } from './app-url';
 import { withMail } from './mail';
+import { titleOrUntitled } from '$lib/posted-job';
 
 /** The service-area form's upper limit, so a box this wide around a job holds every installer who could reach it. */
 export const MAX_SERVICE_RADIUS_KM = 200;
@@ -246,7 +247,7 @@ export async function listOfferedJobs(installer: InstallerContext, box?: Boundin
 		}
 		offered.push({
 			id: row.id,
-			title: row.title ?? 'Dash camera fit',
+			title: titleOrUntitled(row.title),
 			suburb: row.suburb,
 			lat: approx.lat,
 			lng: approx.lng,
@@ -347,7 +348,7 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 	return {
 		id: j.id,
 		status: j.status,
-		title: j.title ?? 'Dash camera fit',
+		title: titleOrUntitled(j.title),
 		suburb: j.suburb,
 		postcode: j.postcode,
 		approx,
@@ -399,7 +400,7 @@ export async function sendNewJobDigests(now = new Date()): Promise<number> {
 			};
 			entry.jobs.push({
 				jobId: row.id,
-				title: row.title ?? 'Dash camera fit',
+				title: titleOrUntitled(row.title),
 				suburb: row.suburb ?? 'nearby',
 				distance: `${String(Math.round(installer.distanceKm))} km`
 			});

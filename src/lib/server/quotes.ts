@@ -26,6 +26,7 @@ import { requestQuoteDigest } from './boss';
 import { withMail } from './mail';
 import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
+import { titleOrUntitled } from '$lib/posted-job';
 
 /** What an installer sends, in GST-inclusive cents and UTC instants. */
 export interface QuoteInput {
@@ -281,7 +282,7 @@ export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Pro
 			template: 'quotes-received',
 			data: {
 				displayName: row.ownerName,
-				title: row.job.title ?? 'your dash camera job',
+				title: titleOrUntitled(row.job.title),
 				quotes: fresh.map((q) => ({
 					businessName: q.businessName,
 					total: formatAud(q.totalCents),

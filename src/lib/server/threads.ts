@@ -12,6 +12,7 @@ import { appUrl } from './app-url';
 import { withMail } from './mail';
 import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
+import { titleOrUntitled } from '$lib/posted-job';
 
 /** Who may talk in a thread, and whether contact details are still masked in it. */
 async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: string) {
@@ -118,7 +119,7 @@ export async function postJobMessage(
 			body: masked.text,
 			masked: masked.masked
 		});
-		const title = access.title ?? 'your dash camera job';
+		const title = titleOrUntitled(access.title);
 		await (isOwner
 			? mail.send(access.installerEmail, {
 					template: 'job-message',

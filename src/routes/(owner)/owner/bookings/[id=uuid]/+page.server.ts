@@ -4,6 +4,7 @@ import { requireRole } from '$lib/server/guards';
 import { startHeldFundsPayment } from '$lib/server/payments';
 import { formatSlot } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
+import { titleOrUntitled } from '$lib/posted-job';
 
 const NOT_FOUND = 'There is no such booking among yours.';
 
@@ -27,7 +28,7 @@ export const load: PageServerLoad = async ({ params }) => {
 			holdExpiresAt: b.holdExpiresAt.toISOString()
 		},
 		jobId: row.jobId,
-		title: row.title ?? 'Your job',
+		title: titleOrUntitled(row.title),
 		businessName: row.businessName,
 		suburb: row.suburb,
 		timeZone: row.timeZone

@@ -9,6 +9,7 @@ import { listQuotesForOwner } from '$lib/server/quotes';
 import { COMPARISON_SORTS, compareQuotes, type ComparisonSort } from './comparison';
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import type { PageServerLoad } from './$types';
+import { titleOrUntitled } from '$lib/posted-job';
 
 const sortSchema = z.object({
 	sort: z
@@ -33,7 +34,12 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		getLiveBookingForJob(job.id)
 	]);
 	return {
-		job: { id: job.id, title: job.title ?? 'Your job', status: job.status, timeZone: job.timeZone },
+		job: {
+			id: job.id,
+			title: titleOrUntitled(job.title),
+			status: job.status,
+			timeZone: job.timeZone
+		},
 		rows: compareQuotes(quotes ?? [], sort, dir),
 		asking,
 		booking,

@@ -11,6 +11,7 @@ import { formatSlot } from '$lib/schedule';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
 import type { Actions, PageServerLoad } from './$types';
+import { titleOrUntitled } from '$lib/posted-job';
 
 const bookSchema = z.object({
 	quoteId: z.uuid(),
@@ -35,7 +36,12 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		superValidate(zod4(threadMessageSchema))
 	]);
 	return {
-		job: { id: job.id, title: job.title ?? 'Your job', status: job.status, timeZone: job.timeZone },
+		job: {
+			id: job.id,
+			title: titleOrUntitled(job.title),
+			status: job.status,
+			timeZone: job.timeZone
+		},
 		quote: q && {
 			id: q.id,
 			businessName: q.businessName,

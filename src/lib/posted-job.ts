@@ -1,0 +1,42 @@
+/**
+ * What a posted job stores besides its request: the one writer of a posted job's columns, used by
+ * posting, the demo seed and the tests alike. Pure.
+ */
+import { computeScope, type JobRequestInput } from './scope';
+
+/** The name a job goes by before its car is known (and in e-mails about it). */
+export const UNTITLED_JOB = 'Dash camera job';
+
+/**
+ * A job's title: year, make and model as the owner entered them, or {@link UNTITLED_JOB}.
+ * @param car the request or draft (any of the three may be missing in a draft)
+ */
+export function jobTitle(car: { year?: unknown; make?: unknown; model?: unknown } | null): string {
+	const parts = [car?.year, car?.make, car?.model]
+		.filter((p): p is string | number => typeof p === 'string' || typeof p === 'number')
+		.map((p) => String(p).trim())
+		.filter(Boolean);
+	return parts.length > 0 ? parts.join(' ') : UNTITLED_JOB;
+}
+
+/** A stored title, or {@link UNTITLED_JOB} when there is none yet. */
+export const titleOrUntitled = (title: string | null | undefined) => title ?? UNTITLED_JOB;
+
+/**
+ * The columns a job gets when it is posted: the validated request, its scope sheet, the title,
+ * the board's filter columns and the price guide.
+ * @param request the whole, validated request
+ */
+export function postedJobColumns(request: JobRequestInput) {
+	const scope = computeScope(request);
+	return {
+		request,
+		scope,
+		title: jobTitle(request),
+		bodyStyle: request.bodyStyle,
+		cameras: request.cameras,
+		power: request.power,
+		priceLowCents: scope.price.totalIncGst.min,
+		priceHighCents: scope.price.totalIncGst.max
+	};
+}
