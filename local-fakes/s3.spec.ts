@@ -356,7 +356,7 @@ describe('S3 fake over raw HTTP', () => {
 });
 
 describe('S3 fake persistence', () => {
-	it('reloads objects from the data folder after a restart', async () => {
+	it('reloads objects, deletions and empty buckets from the data folder after a restart', async () => {
 		const dataDir = await mkdtemp(join(tmpdir(), 'tapline-s3-'));
 		try {
 			const first = await startFakes({ ...EPHEMERAL, dataDir });
@@ -370,6 +370,9 @@ describe('S3 fake persistence', () => {
 					Metadata: { owner: 'demo' }
 				})
 			);
+			await c1.send(new PutObjectCommand({ Bucket: 'kept', Key: 'gone.txt', Body: 'bye' }));
+			await c1.send(new DeleteObjectCommand({ Bucket: 'kept', Key: 'gone.txt' }));
+			await c1.send(new CreateBucketCommand({ Bucket: 'empty-but-kept' }));
 			c1.destroy();
 			await first.close();
 
@@ -381,6 +384,13 @@ describe('S3 fake persistence', () => {
 					true
 				);
 				expect(got.Metadata).toEqual({ owner: 'demo' });
+				const gone = await failure(
+					c2.send(new GetObjectCommand({ Bucket: 'kept', Key: 'gone.txt' }))
+				);
+				expect(gone.name).toBe('NoSuchKey');
+				const listed = await c2.send(new ListObjectsV2Command({ Bucket: 'kept' }));
+				expect(listed.Contents?.map((o) => o.Key)).toEqual(['a/b.bin']);
+				await c2.send(new HeadBucketCommand({ Bucket: 'empty-but-kept' }));
 			} finally {
 				c2.destroy();
 				await second.close();
