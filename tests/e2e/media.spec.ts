@@ -4,8 +4,7 @@ import {
 	S3Client,
 	type ListObjectsV2CommandOutput
 } from '@aws-sdk/client-s3';
-import sharp from 'sharp';
-import { expect, test } from './fixtures';
+import { expect, jpegPhoto, test, uploadJobPhoto } from './fixtures';
 
 // `npm test` passes the app's S3 settings to Playwright; the bucket is the app's default.
 const BUCKET = process.env.S3_BUCKET ?? 'tapline-uploads';
@@ -45,18 +44,8 @@ test('a job photo whose file is gone from storage answers 404 with a placeholder
 	await page.goto(page.url().replace(/vehicle$/, 'photos'));
 
 	const before = await storedKeys(s3);
-	const photo = await sharp({
-		create: { width: 640, height: 480, channels: 3, background: '#556677' }
-	})
-		.jpeg()
-		.toBuffer();
-	const fuseBox = page.getByTestId('photo-fuse-box');
-	await fuseBox
-		.locator('input[type=file]')
-		.setInputFiles({ name: 'fuses.jpg', mimeType: 'image/jpeg', buffer: photo });
-	await fuseBox.getByRole('button', { name: 'Upload photo' }).click();
+	const fuseBox = await uploadJobPhoto(page, 'photo-fuse-box', await jpegPhoto());
 	const img = fuseBox.getByRole('img');
-	await expect(img).toBeVisible();
 	const thumbUrl = await img.getAttribute('src');
 	expect(thumbUrl).toMatch(/^\/media\/job-photos\/[0-9a-f-]{36}\/thumb$/);
 	expect((await page.request.get(thumbUrl ?? '')).status()).toBe(200);

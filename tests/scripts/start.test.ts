@@ -235,33 +235,26 @@ describe('npm start refuses a taken port before starting anything', () => {
 		});
 	}
 
-	it('names the app port and who holds it, exits non-zero, and starts nothing', async () => {
-		const { env, ports } = await startEnv();
-		const blocker = await occupy(ports.app);
-		try {
-			const run = launch(env);
-			expect(await run.exited).toBe(1);
-			expect(run.output()).toContain(
-				`port ${ports.app} (the app; set PORT to move it) is in use by pid ${process.pid}`
-			);
-			for (const port of [...ports.fakes, ports.pg]) expect(await portIsFree(port)).toBe(true);
-		} finally {
-			await new Promise((r) => blocker.close(r));
+	it.each([
+		['app', 'the app; set PORT to move it'],
+		['pg', 'PostgreSQL; set TAPLINE_PG_PORT to move it']
+	] as const)(
+		'names the %s port and who holds it, exits non-zero, and starts nothing else',
+		async (which, description) => {
+			const { env, ports } = await startEnv();
+			const all = [ports.app, ...ports.fakes, ports.pg];
+			const blocker = await occupy(ports[which]);
+			try {
+				const run = launch(env);
+				expect(await run.exited).toBe(1);
+				expect(run.output()).toContain(
+					`port ${ports[which]} (${description}) is in use by pid ${process.pid}`
+				);
+				for (const port of all.filter((p) => p !== ports[which]))
+					expect(await portIsFree(port)).toBe(true);
+			} finally {
+				await new Promise((r) => blocker.close(r));
+			}
 		}
-	});
-
-	it("names PostgreSQL's port when it is taken, and leaves the app and fakes unstarted", async () => {
-		const { env, ports } = await startEnv();
-		const blocker = await occupy(ports.pg);
-		try {
-			const run = launch(env);
-			expect(await run.exited).toBe(1);
-			expect(run.output()).toContain(
-				`port ${ports.pg} (PostgreSQL; set TAPLINE_PG_PORT to move it) is in use`
-			);
-			for (const port of [ports.app, ...ports.fakes]) expect(await portIsFree(port)).toBe(true);
-		} finally {
-			await new Promise((r) => blocker.close(r));
-		}
-	});
+	);
 });
