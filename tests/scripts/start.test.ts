@@ -237,10 +237,11 @@ describe('npm start refuses a taken port before starting anything', () => {
 
 	it.each([
 		['app', 'the app; set PORT to move it'],
-		['pg', 'PostgreSQL; set TAPLINE_PG_PORT to move it']
+		['PostgreSQL', 'PostgreSQL; set TAPLINE_PG_PORT to move it']
 	] as const)(
-		'names the %s port and who holds it, exits non-zero, and starts nothing else',
-		async (which, description) => {
+		"names the %s's port and who holds it, exits non-zero, and starts nothing else",
+		async (name, description) => {
+			const which = name === 'app' ? 'app' : 'pg';
 			const { env, ports } = await startEnv();
 			const all = [ports.app, ...ports.fakes, ports.pg];
 			const blocker = await occupy(ports[which]);
