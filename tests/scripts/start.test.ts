@@ -239,7 +239,7 @@ describe('npm start refuses a taken port before starting anything', () => {
 		['app', 'the app; set PORT to move it'],
 		['PostgreSQL', 'PostgreSQL; set TAPLINE_PG_PORT to move it']
 	] as const)(
-		"names the %s's port and who holds it, exits non-zero, and starts nothing else",
+		'names the %s port and who holds it, exits non-zero, and starts nothing else',
 		async (name, description) => {
 			const which = name === 'app' ? 'app' : 'pg';
 			const { env, ports } = await startEnv();
