@@ -28,6 +28,18 @@ export default defineConfig({
 					testTimeout: 30_000,
 					hookTimeout: 60_000
 				}
+			},
+			{
+				// `npm start` itself, run as a process on ports of its own (npm test's last step).
+				extends: true,
+				test: {
+					name: 'scripts',
+					environment: 'node',
+					include: ['tests/scripts/**/*.test.ts'],
+					fileParallelism: false,
+					testTimeout: 180_000,
+					hookTimeout: 60_000
+				}
 			}
 		]
 	}

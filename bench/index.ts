@@ -4,6 +4,7 @@
  * Benchmarks report; they never fail a build. Tests never assert timings.
  */
 import { hash } from '@node-rs/argon2';
+import { maskContactDetails } from '../src/lib/masking';
 import { computeScope, jobRequestSchema } from '../src/lib/scope';
 import { SAMPLE_REQUEST } from '../seed/sample-request';
 
@@ -65,6 +66,10 @@ const results = [
 	baseline,
 	measure('validate a job request (zod)', 20_000, () => jobRequestSchema.parse(request)),
 	measure('compute a scope sheet', 20_000, () => computeScope(parsed)),
+	// Moved here from masking.spec.ts: tests do not assert timings.
+	measure('mask contact details, 15 kB of awkward text', 3, () =>
+		maskContactDetails('a.'.repeat(5000) + ' at ' + 'b dot '.repeat(5000) + '1 '.repeat(5000))
+	),
 	await measureAsync('argon2id hash (sign-up, password reset)', 20, () =>
 		hash('correct horse battery staple', { memoryCost: 19456, timeCost: 2, parallelism: 1 })
 	)

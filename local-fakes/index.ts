@@ -161,6 +161,7 @@ async function main(): Promise<void> {
 	};
 	process.on('SIGINT', stop);
 	process.on('SIGTERM', stop);
+	process.on('SIGHUP', stop);
 }
 
 function isEntryPoint(): boolean {

@@ -3,6 +3,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Readable } from 'node:stream';
+import { crc32 } from 'node:zlib';
 import {
 	CopyObjectCommand,
 	CreateBucketCommand,
@@ -17,7 +18,6 @@ import {
 	S3ServiceException
 } from '@aws-sdk/client-s3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { crc32, crc32c, crcToBase64 } from './checksum';
 import { startFakes, type RunningFakes } from './index';
 import { decodeAwsChunked, isValidBucketName } from './s3';
 
@@ -28,6 +28,13 @@ const BUCKET = 'tapline-uploads';
 const FAKE_AUTH =
 	'AWS4-HMAC-SHA256 Credential=local/20260301/ap-southeast-2/s3/aws4_request, SignedHeaders=host, Signature=' +
 	'0'.repeat(64);
+
+/** A 32-bit CRC as S3 headers carry it: four big-endian bytes in base64. */
+const crcHeader = (value: number): string => {
+	const out = Buffer.alloc(4);
+	out.writeUInt32BE(value);
+	return out.toString('base64');
+};
 
 let fakes: RunningFakes;
 let s3: S3Client;
@@ -132,7 +139,7 @@ describe('S3 fake with the AWS SDK', () => {
 		);
 		expect(Buffer.from((await got.Body?.transformToByteArray()) ?? []).equals(whole)).toBe(true);
 		// The SDK sends CRC-32 by default; the stored value must be the real CRC of the bytes.
-		expect(got.ChecksumCRC32).toBe(crcToBase64(crc32(whole)));
+		expect(got.ChecksumCRC32).toBe(crcHeader(crc32(whole)));
 	});
 
 	it('answers NoSuchKey / NotFound with 404 for missing objects and buckets', async () => {
@@ -290,7 +297,7 @@ describe('S3 fake over raw HTTP', () => {
 			method: 'PUT',
 			headers: {
 				authorization: FAKE_AUTH,
-				'x-amz-checksum-crc32': crcToBase64(crc32(Buffer.from('something else')))
+				'x-amz-checksum-crc32': crcHeader(crc32(Buffer.from('something else')))
 			},
 			body
 		});
@@ -304,7 +311,7 @@ describe('S3 fake over raw HTTP', () => {
 
 		const good = await fetch(`${fakes.urls.s3}/${BUCKET}/good-digest.txt`, {
 			method: 'PUT',
-			headers: { authorization: FAKE_AUTH, 'x-amz-checksum-crc32c': crcToBase64(crc32c(body)) },
+			headers: { authorization: FAKE_AUTH, 'x-amz-checksum-crc32': crcHeader(crc32(body)) },
 			body
 		});
 		expect(good.status).toBe(200);
@@ -349,7 +356,7 @@ describe('S3 fake over raw HTTP', () => {
 });
 
 describe('S3 fake persistence', () => {
-	it('reloads objects from the data folder after a restart', async () => {
+	it('reloads objects, deletions and empty buckets from the data folder after a restart', async () => {
 		const dataDir = await mkdtemp(join(tmpdir(), 'tapline-s3-'));
 		try {
 			const first = await startFakes({ ...EPHEMERAL, dataDir });
@@ -363,6 +370,9 @@ describe('S3 fake persistence', () => {
 					Metadata: { owner: 'demo' }
 				})
 			);
+			await c1.send(new PutObjectCommand({ Bucket: 'kept', Key: 'gone.txt', Body: 'bye' }));
+			await c1.send(new DeleteObjectCommand({ Bucket: 'kept', Key: 'gone.txt' }));
+			await c1.send(new CreateBucketCommand({ Bucket: 'empty-but-kept' }));
 			c1.destroy();
 			await first.close();
 
@@ -374,6 +384,13 @@ describe('S3 fake persistence', () => {
 					true
 				);
 				expect(got.Metadata).toEqual({ owner: 'demo' });
+				const gone = await failure(
+					c2.send(new GetObjectCommand({ Bucket: 'kept', Key: 'gone.txt' }))
+				);
+				expect(gone.name).toBe('NoSuchKey');
+				const listed = await c2.send(new ListObjectsV2Command({ Bucket: 'kept' }));
+				expect(listed.Contents?.map((o) => o.Key)).toEqual(['a/b.bin']);
+				await c2.send(new HeadBucketCommand({ Bucket: 'empty-but-kept' }));
 			} finally {
 				c2.destroy();
 				await second.close();
@@ -385,10 +402,33 @@ describe('S3 fake persistence', () => {
 });
 
 describe('checksums', () => {
-	it('match the published check values for "123456789"', () => {
-		// Check values from the CRC catalogue (R. Williams, "A Painless Guide to CRC Error
-		// Detection Algorithms"; reveng CRC-32/ISO-HDLC and CRC-32/ISCSI entries).
-		expect(crc32(Buffer.from('123456789'))).toBe(0xcbf43926);
-		expect(crc32c(Buffer.from('123456789'))).toBe(0xe3069283);
+	// Check values for the nine ASCII bytes "123456789" from the CRC catalogue (reveng,
+	// "Catalogue of parametrised CRC algorithms": CRC-32/ISO-HDLC, CRC-32/ISCSI, CRC-64/NVME).
+	const CHECK_INPUT = Buffer.from('123456789');
+	const PUBLISHED: [string, string][] = [
+		['crc32', 'cbf43926'],
+		['crc32c', 'e3069283'],
+		['crc64nvme', 'ae8b14860a799888']
+	];
+
+	async function put(algorithm: string, hex: string): Promise<Response> {
+		return fetch(`${fakes.urls.s3}/${BUCKET}/check-${algorithm}.txt`, {
+			method: 'PUT',
+			headers: {
+				authorization: FAKE_AUTH,
+				[`x-amz-checksum-${algorithm}`]: Buffer.from(hex, 'hex').toString('base64')
+			},
+			body: CHECK_INPUT
+		});
+	}
+
+	it.each(PUBLISHED)('verifies %s against the published check value', async (algorithm, hex) => {
+		expect((await put(algorithm, hex)).status).toBe(200);
+		// The same value with its last bit flipped is refused.
+		const flipped = Buffer.from(hex, 'hex');
+		flipped[flipped.length - 1] = (flipped[flipped.length - 1] ?? 0) ^ 1;
+		const bad = await put(algorithm, flipped.toString('hex'));
+		expect(bad.status).toBe(400);
+		expect(await bad.text()).toContain('<Code>BadDigest</Code>');
 	});
 });

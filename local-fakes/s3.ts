@@ -2,7 +2,8 @@ import { createHash, randomBytes } from 'node:crypto';
 import { mkdir, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import { join } from 'node:path';
-import { crc32, crc32c, crcToBase64 } from './checksum';
+import { crc32 } from 'node:zlib';
+import { Crc32c, Crc64Nvme } from '@aws-sdk/checksums/crc';
 import { BodyTooLargeError, listenHttp, readBody } from './http-util';
 
 /** Largest single PUT the fake holds in memory; real S3 allows 5 GiB, far beyond demo needs. */
@@ -134,19 +135,36 @@ export function decodeAwsChunked(encoded: Buffer): { body: Buffer; trailers: Map
 	return { body: Buffer.concat(parts), trailers };
 }
 
-function computeChecksum(algorithm: ChecksumAlgorithm, body: Buffer): string | null {
+/** The SDK's checksum interface (Smithy `Checksum`): feed bytes, then read the digest. */
+interface Checksum {
+	update(chunk: Uint8Array): void;
+	digest(): Promise<Uint8Array>;
+}
+
+async function sdkDigest(checksum: Checksum, body: Buffer): Promise<string> {
+	checksum.update(body);
+	return Buffer.from(await checksum.digest()).toString('base64');
+}
+
+/**
+ * The checksum as S3 headers carry it: the digest's big-endian bytes in base64. CRC-32 comes from
+ * Node's zlib, CRC-32C and CRC-64/NVME from the AWS SDK's own checksum package.
+ */
+async function computeChecksum(algorithm: ChecksumAlgorithm, body: Buffer): Promise<string> {
 	switch (algorithm) {
-		case 'crc32':
-			return crcToBase64(crc32(body));
+		case 'crc32': {
+			const out = Buffer.alloc(4);
+			out.writeUInt32BE(crc32(body));
+			return out.toString('base64');
+		}
 		case 'crc32c':
-			return crcToBase64(crc32c(body));
+			return sdkDigest(new Crc32c(), body);
+		case 'crc64nvme':
+			return sdkDigest(new Crc64Nvme(), body);
 		case 'sha1':
 			return createHash('sha1').update(body).digest('base64');
 		case 'sha256':
 			return createHash('sha256').update(body).digest('base64');
-		case 'crc64nvme':
-			// Stored and echoed but not verified: no CRC-64 here, and the SDK defaults to CRC-32.
-			return null;
 	}
 }
 
@@ -572,7 +590,7 @@ export async function startS3Fake(options: S3FakeOptions): Promise<S3Fake> {
 				'The Content-MD5 you specified did not match what we received.'
 			);
 		}
-		const checksums = verifyChecksums(req, trailers, body);
+		const checksums = await verifyChecksums(req, trailers, body);
 
 		const metadata: Record<string, string> = {};
 		for (const [name, value] of Object.entries(req.headers)) {
@@ -607,18 +625,17 @@ export async function startS3Fake(options: S3FakeOptions): Promise<S3Fake> {
 		res.end();
 	}
 
-	function verifyChecksums(
+	async function verifyChecksums(
 		req: IncomingMessage,
 		trailers: Map<string, string>,
 		body: Buffer
-	): Partial<Record<ChecksumAlgorithm, string>> {
+	): Promise<Partial<Record<ChecksumAlgorithm, string>>> {
 		const checksums: Partial<Record<ChecksumAlgorithm, string>> = {};
 		for (const algorithm of CHECKSUM_ALGORITHMS) {
 			const name = `x-amz-checksum-${algorithm}`;
 			const given = header(req, name) ?? trailers.get(name);
 			if (given === undefined) continue;
-			const actual = computeChecksum(algorithm, body);
-			if (actual !== null && actual !== given) {
+			if ((await computeChecksum(algorithm, body)) !== given) {
 				throw new S3Error(
 					400,
 					'BadDigest',

@@ -177,7 +177,7 @@ describe('mail fake over SMTP', () => {
 });
 
 describe('mail fake persistence', () => {
-	it('writes .eml files to the data folder and reloads them on restart', async () => {
+	it('writes .eml files to the data folder, reloads them on restart and forgets them when cleared', async () => {
 		const dataDir = await mkdtemp(join(tmpdir(), 'tapline-fakes-'));
 		try {
 			const first = await startFakes({ ...EPHEMERAL, dataDir });
@@ -202,8 +202,18 @@ describe('mail fake persistence', () => {
 				const list = (await res.json()) as MailSummary[];
 				expect(list.map((m) => m.subject)).toEqual(['kept across restarts']);
 				expect(list[0]?.to).toEqual(['kept@example.test']);
+				// Clearing the inbox clears the kept files too: nothing comes back next time.
+				await fetch(`${second.urls.mailApi}/api/messages`, { method: 'DELETE' });
 			} finally {
 				await second.close();
+			}
+			expect(await readdir(join(dataDir, 'mail'))).toEqual([]);
+			const third = await startFakes({ ...EPHEMERAL, dataDir });
+			try {
+				const res = await fetch(`${third.urls.mailApi}/api/messages`);
+				expect(await res.json()).toEqual([]);
+			} finally {
+				await third.close();
 			}
 		} finally {
 			await rm(dataDir, { recursive: true, force: true });

@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { mkdir, readdir, readFile, writeFile } from 'node:fs/promises';
+import { mkdir, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { join } from 'node:path';
@@ -170,7 +170,7 @@ export async function startMailFake(options: MailFakeOptions): Promise<MailFake>
 		const receivedAt = new Date();
 		const parsed = await simpleParser(raw);
 		messages.push({ raw, detail: toDetail(id, parsed, envelope, receivedAt) });
-		if (messages.length > MAX_MESSAGES) messages.shift();
+		if (messages.length > MAX_MESSAGES) await forget(messages.splice(0, 1));
 		if (mailDir) {
 			await writeFile(join(mailDir, `${id}.eml`), raw);
 			await writeFile(
@@ -179,6 +179,15 @@ export async function startMailFake(options: MailFakeOptions): Promise<MailFake>
 			);
 		}
 		return id;
+	}
+
+	/** Drops the kept files of messages removed from the inbox, so a restart does not bring them back. */
+	async function forget(removed: StoredMail[]): Promise<void> {
+		if (!mailDir) return;
+		for (const { detail } of removed) {
+			await rm(join(mailDir, `${detail.id}.json`), { force: true });
+			await rm(join(mailDir, `${detail.id}.eml`), { force: true });
+		}
 	}
 
 	function onData(
@@ -254,7 +263,7 @@ export async function startMailFake(options: MailFakeOptions): Promise<MailFake>
 
 		if (path === '/api/messages') {
 			if (method === 'DELETE') {
-				messages.length = 0;
+				await forget(messages.splice(0));
 				sendJson(res, 200, { cleared: true });
 				return;
 			}
@@ -313,7 +322,7 @@ export async function startMailFake(options: MailFakeOptions): Promise<MailFake>
 			return;
 		}
 		if (path === '/clear' && method === 'POST') {
-			messages.length = 0;
+			await forget(messages.splice(0));
 			res.writeHead(303, { location: '/' });
 			res.end();
 			return;

@@ -3,7 +3,6 @@
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { ROOT } from './config.mjs';
-import { log, run } from './system.mjs';
 import { binPath } from './processes.mjs';
 
 function newestMtime(p) {
@@ -25,14 +24,19 @@ const SOURCES = [
 	'package-lock.json'
 ];
 
-/** Runs `vite build` unless build/ is newer than every source. */
-export function ensureBuild(env, { force = false } = {}) {
+/**
+ * Runs `vite build` (through `run`, a report's run) unless the build folder is newer than every
+ * source. Returns 'current' or 'built'.
+ */
+export async function ensureBuild(env, { force = false, run }) {
 	const built = path.join(ROOT, env.TAPLINE_BUILD_DIR ?? 'build', 'handler.js');
 	const sourceTime = Math.max(...SOURCES.map((s) => newestMtime(path.join(ROOT, s))));
-	if (!force && existsSync(built) && statSync(built).mtimeMs > sourceTime) {
-		log('Build is current.');
-		return;
+	if (!force && existsSync(built) && statSync(built).mtimeMs > sourceTime) return 'current';
+	// tsconfig.json extends .svelte-kit/tsconfig.json; a fresh clone has none until a sync, and a
+	// build into another kit folder (TAPLINE_KIT_DIR) would not write it.
+	if (!existsSync(path.join(ROOT, '.svelte-kit', 'tsconfig.json'))) {
+		await run(binPath('svelte-kit'), ['sync'], { env: { TAPLINE_KIT_DIR: undefined } });
 	}
-	log('Building the app (vite build)…');
-	run(binPath('vite'), ['build'], { env: { ...process.env, ...env } });
+	await run(binPath('vite'), ['build'], { env });
+	return 'built';
 }

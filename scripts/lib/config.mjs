@@ -60,7 +60,8 @@ export function appEnv(config, databaseUrl) {
 		S3_ENDPOINT: process.env.S3_ENDPOINT ?? `http://127.0.0.1:${f.FAKE_S3_PORT}`,
 		GEOCODER_URL: process.env.GEOCODER_URL ?? `http://127.0.0.1:${f.FAKE_GEOCODE_PORT}`,
 		PUBLIC_TILE_ATTRIBUTION:
-			process.env.PUBLIC_TILE_ATTRIBUTION ?? 'Demo tiles, Tapline local fake',
+			process.env.PUBLIC_TILE_ATTRIBUTION ??
+			'Demo map: approximate, hand-made (Tapline local fake)',
 		PUBLIC_TILE_URL:
 			process.env.PUBLIC_TILE_URL ?? `http://127.0.0.1:${f.FAKE_TILES_PORT}/{z}/{x}/{y}.png`,
 		...Object.fromEntries(Object.entries(f).map(([k, v]) => [k, String(v)]))

@@ -57,18 +57,21 @@ function clusterBase(config) {
 }
 
 /**
- * Creates the cluster if needed and starts it. Returns `{ stop, startedHere }`; `stop` is a no-op
- * when the cluster was already running (someone else owns it).
+ * Creates the cluster's folder and data (initdb) if needed, without starting it. Returns what
+ * startCluster() needs, plus `base` (the folder holding it) and `running` (already started,
+ * by an earlier run or someone else). `say` reports progress (default: the console).
  */
-export function ensureCluster(config) {
+export function prepareCluster(config, { say = log } = {}) {
 	const bin = findPostgresBin();
 	if (!bin) throw new Error('PostgreSQL is not installed');
 	const base = clusterBase(config);
 	const dataDir = path.join(base, `pg-${config.pgPort}`);
 	const logFile = path.join(base, `postgres-${config.pgPort}.log`);
+	let created = false;
 
 	if (!existsSync(path.join(dataDir, 'PG_VERSION'))) {
-		log(`Creating a PostgreSQL cluster in ${dataDir}…`);
+		say(`Creating a PostgreSQL cluster in ${dataDir}…`);
+		created = true;
 		const pwfile = path.join(os.tmpdir(), `tapline-pw-${process.pid}`);
 		writeFileSync(pwfile, `${config.pgPassword}\n`, { mode: 0o644 });
 		try {
@@ -101,13 +104,29 @@ export function ensureCluster(config) {
 			chownSync(confPath, uid, gid);
 		}
 	}
-
 	const status = pgRun(bin, 'pg_ctl', ['status', '-D', dataDir], { check: false });
-	if (status.status === 0) {
-		log(`PostgreSQL already running on 127.0.0.1:${config.pgPort}`);
-		return { dataDir, startedHere: false, stop: () => {} };
+	return {
+		bin,
+		base,
+		dataDir,
+		logFile,
+		port: config.pgPort,
+		created,
+		running: status.status === 0
+	};
+}
+
+/**
+ * Starts a prepared cluster unless it runs already. Returns `{ dataDir, base, startedHere, stop }`;
+ * `stop` is a no-op when the cluster was already running (someone else owns it).
+ */
+export function startCluster(prepared, { say = log } = {}) {
+	const { bin, base, dataDir, logFile, port } = prepared;
+	if (prepared.running) {
+		say(`PostgreSQL already running on 127.0.0.1:${port}`);
+		return { dataDir, base, startedHere: false, stop: () => {} };
 	}
-	log(`Starting PostgreSQL on 127.0.0.1:${config.pgPort}…`);
+	say(`Starting PostgreSQL on 127.0.0.1:${port}…`);
 	pgRun(bin, 'pg_ctl', [
 		'start',
 		'-D',
@@ -118,13 +137,19 @@ export function ensureCluster(config) {
 		'-t',
 		'90',
 		'-o',
-		`-p ${config.pgPort}`
+		`-p ${port}`
 	]);
 	return {
 		dataDir,
+		base,
 		startedHere: true,
 		stop: () => {
 			pgRun(bin, 'pg_ctl', ['stop', '-D', dataDir, '-m', 'fast', '-w'], { check: false });
 		}
 	};
+}
+
+/** Creates the cluster if needed and starts it (see prepareCluster and startCluster). */
+export function ensureCluster(config, options = {}) {
+	return startCluster(prepareCluster(config, options), options);
 }

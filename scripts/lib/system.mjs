@@ -1,5 +1,5 @@
 // @ts-nocheck -- plain-JS orchestration that runs before npm ci; type-checked by its own use, not by tsc
-// Installing what is missing: npm packages and Debian packages.
+// Installing what is missing: npm packages and Debian packages; running commands.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
@@ -16,13 +16,16 @@ export function run(cmd, args, options = {}) {
 	}
 }
 
-/** `npm ci` when node_modules is missing or older than package-lock.json. */
-export function ensureNodeModules() {
+/**
+ * `npm ci` when node_modules is missing or older than package-lock.json. `run(cmd, args)` runs
+ * it (a report's run, so its output goes to the log). Returns what it did, in a word or two.
+ */
+export async function ensureNodeModules(run) {
 	const marker = path.join(ROOT, 'node_modules', '.package-lock.json');
 	const lock = path.join(ROOT, 'package-lock.json');
-	if (existsSync(marker) && statSync(marker).mtimeMs >= statSync(lock).mtimeMs) return;
-	log('Installing npm packages (npm ci)…');
-	run('npm', ['ci', '--no-audit', '--no-fund']);
+	if (existsSync(marker) && statSync(marker).mtimeMs >= statSync(lock).mtimeMs) return 'up to date';
+	await run('npm', ['ci', '--no-audit', '--no-fund']);
+	return 'installed (npm ci)';
 }
 
 /** The bin folder of the newest PostgreSQL server Debian installed, or null. */
@@ -35,16 +38,22 @@ export function findPostgresBin() {
 	return versions.length ? path.join(base, versions[0], 'bin') : null;
 }
 
+// Debian packages the scripts may install, each with how to tell it is there.
 const APT = {
 	postgresql: () => findPostgresBin() !== null,
-	chromium: () => existsSync('/usr/bin/chromium')
+	chromium: () => existsSync('/usr/bin/chromium'),
+	// The tile fake's labels: sharp draws SVG text with fonts found through fontconfig.
+	'fonts-dejavu-core': () => existsSync('/usr/share/fonts/truetype/dejavu/DejaVuSans.ttf'),
+	'fontconfig-config': () => existsSync('/etc/fonts/fonts.conf')
 };
 
-/** Installs Debian packages that are missing, with apt-get (as root, or through password-less sudo). */
-export function ensureDebianPackages(names) {
+/**
+ * Installs Debian packages that are missing, with apt-get (as root, or through password-less
+ * sudo), through `run(cmd, args, options)`. Returns what it did, in a few words.
+ */
+export async function ensureDebianPackages(names, run) {
 	const missing = names.filter((n) => !APT[n]());
-	if (missing.length === 0) return;
-	log(`Installing Debian packages: ${missing.join(', ')} (apt-get)…`);
+	if (missing.length === 0) return 'present';
 	let prefix = [];
 	if (!isRoot()) {
 		const sudo = spawnSync('sudo', ['-n', 'true']);
@@ -55,14 +64,15 @@ export function ensureDebianPackages(names) {
 		}
 		prefix = ['sudo', '-n'];
 	}
-	const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+	const env = { DEBIAN_FRONTEND: 'noninteractive' };
 	const apt = (args) =>
 		prefix.length
 			? run(prefix[0], [...prefix.slice(1), 'apt-get', ...args], { env })
 			: run('apt-get', args, { env });
-	apt(['update', '-qq']);
-	apt(['install', '-y', '-qq', ...missing]);
+	await apt(['update', '-qq']);
+	await apt(['install', '-y', '-qq', ...missing]);
 	for (const n of missing) if (!APT[n]()) throw new Error(`apt-get did not install ${n}`);
+	return `installed ${missing.join(', ')}`;
 }
 
 /** True when `user` can enter and write `dir`. */

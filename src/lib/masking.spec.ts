@@ -83,10 +83,11 @@ describe('CONTACT_PATTERNS', () => {
 		}
 	});
 
-	it('finishes quickly on long, awkward input', () => {
+	it('handles long, awkward input (its speed is measured by npm run bench)', () => {
 		const awkward = 'a.'.repeat(5000) + ' at ' + 'b dot '.repeat(5000) + '1 '.repeat(5000);
-		const started = performance.now();
-		maskContactDetails(awkward);
-		expect(performance.now() - started).toBeLessThan(2000);
+		const { text, masked } = maskContactDetails(awkward);
+		expect(masked).toEqual(['phone']);
+		expect(text.startsWith('a.a.a.')).toBe(true);
+		expect(text.trimEnd().endsWith(MASK_PLACEHOLDER)).toBe(true);
 	});
 });

@@ -1,4 +1,5 @@
 import { test as base, expect, type Page } from '@playwright/test';
+import sharp from 'sharp';
 
 export const DEMO_PASSWORD = 'tapline-demo-2026';
 export const DEMO = {
@@ -53,6 +54,26 @@ export async function signIn(page: Page, email: string, password = DEMO_PASSWORD
 /** A fresh address per test run, so reruns against the same database never collide. */
 export const uniqueEmail = (label: string) =>
 	`${label}.${Date.now().toString(36)}${Math.floor(Math.random() * 1e4)}@example.test`;
+
+/** A plain JPEG photo of the given size, made with sharp. */
+export async function jpegPhoto(width = 640, height = 480): Promise<Buffer> {
+	return sharp({ create: { width, height, channels: 3, background: '#556677' } })
+		.jpeg()
+		.toBuffer();
+}
+
+/** Uploads a photo into the photo step's box with this test id and waits for its picture. */
+export async function uploadJobPhoto(page: Page, testId: string, buffer: Buffer) {
+	const box = page.getByTestId(testId);
+	await box.locator('input[type=file]').setInputFiles({
+		name: 'photo.jpg',
+		mimeType: 'image/jpeg',
+		buffer
+	});
+	await box.getByRole('button', { name: 'Upload photo' }).click();
+	await expect(box.getByRole('img')).toBeVisible();
+	return box;
+}
 
 export const test = base.extend<{ ownerPage: Page; installerPage: Page; adminPage: Page }>({
 	ownerPage: async ({ page }, use) => {

@@ -71,9 +71,18 @@ export async function getObject(
 			length: res.ContentLength
 		};
 	} catch (err) {
-		if ((err as { name?: string }).name === 'NoSuchKey') return null;
+		if (isMissing(err)) return null;
 		throw err;
 	}
+}
+
+/**
+ * True for S3's "not there" answers: the key (NoSuchKey) or the whole bucket (NoSuchBucket, as
+ * after a store was emptied while the database still lists its objects).
+ */
+function isMissing(err: unknown): boolean {
+	const e = err as { name?: string; $metadata?: { httpStatusCode?: number } };
+	return e.name === 'NoSuchKey' || e.name === 'NoSuchBucket' || e.$metadata?.httpStatusCode === 404;
 }
 
 /** Deletes an object; deleting a missing key is not an error. */
@@ -106,4 +115,23 @@ export async function objectResponse(
 		);
 	}
 	return new Response(object.body, { headers });
+}
+
+// A grey frame with a crossed-out picture: drawn in place of a photo whose file is gone.
+const MISSING_IMAGE_SVG = `<svg xmlns="http://www.w3.org/2000/svg" width="320" height="320" viewBox="0 0 320 320" role="img" aria-label="Photo unavailable"><rect width="320" height="320" fill="#e7e5e4"/><rect x="100" y="105" width="120" height="90" rx="8" fill="none" stroke="#78716c" stroke-width="8"/><path d="M112 183l32-36 22 24 16-14 26 26" fill="none" stroke="#78716c" stroke-width="8" stroke-linejoin="round"/><path d="M96 92l128 116" stroke="#78716c" stroke-width="8" stroke-linecap="round"/><text x="160" y="250" text-anchor="middle" font-family="sans-serif" font-size="22" fill="#44403c">Photo unavailable</text></svg>`;
+
+/**
+ * The answer for an image whose object is missing from storage: 404, with a placeholder picture
+ * as the body so an `<img>` still shows something sensible instead of a broken image.
+ */
+export function missingImageResponse(): Response {
+	return new Response(MISSING_IMAGE_SVG, {
+		status: 404,
+		headers: {
+			'content-type': 'image/svg+xml',
+			'cache-control': 'private, no-store',
+			'x-content-type-options': 'nosniff',
+			'content-security-policy': "default-src 'none'; style-src 'unsafe-inline'; sandbox"
+		}
+	});
 }

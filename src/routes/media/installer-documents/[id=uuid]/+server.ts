@@ -1,5 +1,5 @@
 import { error } from '@sveltejs/kit';
-import { objectResponse } from '$lib/server/storage';
+import { missingImageResponse, objectResponse } from '$lib/server/storage';
 import { findViewableDocument } from '$lib/server/documents';
 import type { RequestHandler } from './$types';
 
@@ -19,6 +19,7 @@ export const GET: RequestHandler = async ({ locals, params, url }) => {
 	const response = await objectResponse(key, {
 		downloadName: doc.contentType === 'application/pdf' ? doc.originalName : undefined
 	});
+	if (!response && doc.contentType.startsWith('image/')) return missingImageResponse();
 	if (!response) error(404, 'The file is missing from storage.');
 	if (doc.kind !== 'gallery') response.headers.set('cache-control', 'private, no-store');
 	return response;

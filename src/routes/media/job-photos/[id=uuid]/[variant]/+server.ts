@@ -4,7 +4,7 @@ import { db } from '$lib/server/db';
 import { installerProfile } from '$lib/server/db/schema';
 import { requireRole } from '$lib/server/guards';
 import { findViewableJobPhoto } from '$lib/server/jobs';
-import { objectResponse } from '$lib/server/storage';
+import { missingImageResponse, objectResponse } from '$lib/server/storage';
 import type { RequestHandler } from './$types';
 
 const isVettedInstaller = async (id: string) => {
@@ -30,6 +30,5 @@ export const GET: RequestHandler = async ({ params }) => {
 	const response = await objectResponse(
 		params.variant === 'thumb' ? photo.thumbKey : photo.objectKey
 	);
-	if (!response) error(404, 'No such photo');
-	return response;
+	return response ?? missingImageResponse();
 };
