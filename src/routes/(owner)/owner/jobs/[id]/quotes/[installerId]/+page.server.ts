@@ -2,6 +2,7 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
+import { textField } from '$lib/forms/fields';
 import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
@@ -12,11 +13,10 @@ import type { Actions, PageServerLoad } from './$types';
 
 const bookSchema = z.object({
 	quoteId: z.uuid(),
-	slot: z.string({ error: 'Choose a time' }).min(1, { error: 'Choose one of the times offered' })
+	slot: textField({ error: 'Choose a time' }).min(1, { error: 'Choose one of the times offered' })
 });
 const replySchema = z.object({
-	body: z
-		.string()
+	body: textField()
 		.trim()
 		.min(1, { error: 'Write your answer' })
 		.max(2000, { error: 'Keep it under 2,000 characters' })
