@@ -12,6 +12,7 @@ import {
 	allowedDecisions,
 	approvalProblems,
 	canViewInstallerDocument,
+	isProfilePublic,
 	DECISIONS_NEEDING_MESSAGE,
 	DEFAULT_MIN_PUBLIC_LIABILITY_CENTS,
 	expiryStep,
@@ -335,13 +336,16 @@ export async function findViewableDocument(viewer: DocumentViewer | null, id: st
 					objectKey: installerDocument.objectKey,
 					thumbKey: installerDocument.thumbKey,
 					contentType: installerDocument.contentType,
-					originalName: installerDocument.originalName
+					originalName: installerDocument.originalName,
+					vettingStatus: installerProfile.vettingStatus
 				})
 				.from(installerDocument)
+				.leftJoin(installerProfile, eq(installerProfile.userId, installerDocument.installerId))
 				.where(eq(installerDocument.id, id))
 		: [];
 	if (!doc) return viewer ? ('not-found' as const) : ('sign-in' as const);
-	const decision = canViewInstallerDocument(viewer, doc);
+	const profilePublic = isProfilePublic(doc.vettingStatus);
+	const decision = canViewInstallerDocument(viewer, { ...doc, profilePublic });
 	return decision === 'allowed' ? doc : decision;
 }
 
@@ -747,7 +751,7 @@ export async function getPublicProfile(installerId: string, viewer: DocumentView
 		.where(eq(installerProfile.userId, installerId));
 	if (!row) return null;
 	const mayPreview = viewer?.role === 'admin' || viewer?.id === installerId;
-	if (row.vettingStatus !== 'approved' && !mayPreview) return null;
+	if (!isProfilePublic(row.vettingStatus) && !mayPreview) return null;
 	const gallery = await listInstallerDocuments(installerId, ['gallery']);
 	const { pausedReason, vettingStatus, ...shown } = row;
 	return {
