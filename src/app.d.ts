@@ -9,6 +9,8 @@ declare global {
 		interface Locals {
 			user: SessionUser | null;
 			session: SessionInfo | null;
+			/** Set by handleError when the request failed because the database was away. */
+			serviceUnavailable: boolean;
 		}
 	}
 }
