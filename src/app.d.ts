@@ -5,6 +5,8 @@ declare global {
 	namespace App {
 		interface Error {
 			message: string;
+			/** The request failed because the database was away: worth retrying (HTTP 503). */
+			retry?: boolean;
 		}
 		interface Locals {
 			user: SessionUser | null;

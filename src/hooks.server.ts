@@ -95,7 +95,7 @@ export const handleError: HandleServerError = ({ error: err, event, status, mess
 	if (isServiceUnavailable(err)) {
 		event.locals.serviceUnavailable = true;
 		console.error('[db] request failed while the database was away:', event.url.pathname);
-		return { message: SERVICE_UNAVAILABLE_MESSAGE };
+		return { message: SERVICE_UNAVAILABLE_MESSAGE, retry: true };
 	}
 	if (status >= 500) console.error(err);
 	return { message };
