@@ -13,7 +13,7 @@ export default defineConfig({
 				test: {
 					name: 'unit',
 					environment: 'node',
-					include: ['src/**/*.spec.ts', 'local-fakes/**/*.spec.ts']
+					include: ['src/**/*.spec.ts', 'local-fakes/**/*.spec.ts', 'tests/unit/**/*.spec.ts']
 				}
 			},
 			{

@@ -1,11 +1,25 @@
-import { error, redirect, type Handle, type ServerInit } from '@sveltejs/kit';
+import {
+	error,
+	redirect,
+	type Handle,
+	type HandleServerError,
+	type ServerInit
+} from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
 import { env } from '$env/dynamic/private';
+import { env as publicEnv } from '$env/dynamic/public';
 import { readSession } from '$lib/server/auth';
 import { areaFor, signInUrl } from '$lib/server/guards';
 import { pool } from '$lib/server/db';
 import { startQueue, stopQueue } from '$lib/server/queue';
+import { applySecurityHeaders } from '$lib/server/security-headers';
+import {
+	isServiceUnavailable,
+	RETRY_AFTER_SECONDS,
+	SERVICE_UNAVAILABLE_MESSAGE
+} from '$lib/server/unavailable';
+import { tileSource } from '$lib/map-tiles';
 
 export const init: ServerInit = async () => {
 	if (building || env.TAPLINE_WORKER === 'off') return;
@@ -17,15 +31,51 @@ export const init: ServerInit = async () => {
 	});
 };
 
+// Outermost: security headers on every answer the hooks below let through, and the 503 for a
+// request that failed because the database was away (flagged by handleError).
+const handleResponse: Handle = async ({ event, resolve }) => {
+	event.locals.serviceUnavailable = false;
+	let response = await resolve(event);
+	if (event.locals.serviceUnavailable && response.status === 500) {
+		response = new Response(response.body, { status: 503, headers: response.headers });
+		response.headers.set('retry-after', String(RETRY_AFTER_SECONDS));
+	}
+	const tiles = tileSource(publicEnv.PUBLIC_TILE_URL);
+	applySecurityHeaders(response.headers, {
+		https: (env.ORIGIN ?? '').startsWith('https://'),
+		private: event.locals.user !== null || event.url.pathname.startsWith('/api/'),
+		imageSources: tiles ? [tiles] : []
+	});
+	return response;
+};
+
+// A NUL (%00) in the path or query reaches no route: route params and searches would carry it to
+// PostgreSQL, which refuses it with a 500.
+const handleBadAddress: Handle = async ({ event, resolve }) => {
+	if (/%00/.test(event.url.pathname + event.url.search)) {
+		error(400, 'This address contains a character Tapline cannot read (%00).');
+	}
+	return resolve(event);
+};
+
 const handleSession: Handle = async ({ event, resolve }) => {
-	const { user, session } = await readSession(event.cookies);
-	event.locals.user = user;
-	event.locals.session = session;
+	event.locals.user = null;
+	event.locals.session = null;
+	let found;
+	try {
+		found = await readSession(event.cookies);
+	} catch (err) {
+		if (isServiceUnavailable(err)) error(503, SERVICE_UNAVAILABLE_MESSAGE);
+		throw err;
+	}
+	event.locals.user = found.user;
+	event.locals.session = found.session;
 	return resolve(event);
 };
 
 // Role areas are guarded here, for every request (pages, data and form actions alike), not in
-// layouts, which do not run for actions.
+// layouts, which do not run for actions. areaFor reads the decoded, normalised path, so
+// `/%6fwner/...` is the owner area too.
 const handleRoleAreas: Handle = async ({ event, resolve }) => {
 	const area = areaFor(event.url.pathname);
 	if (area) {
@@ -37,12 +87,16 @@ const handleRoleAreas: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-const handleSecurityHeaders: Handle = async ({ event, resolve }) => {
-	const response = await resolve(event);
-	response.headers.set('X-Content-Type-Options', 'nosniff');
-	response.headers.set('Referrer-Policy', 'strict-origin-when-cross-origin');
-	response.headers.set('X-Frame-Options', 'DENY');
-	return response;
-};
+export const handle = sequence(handleResponse, handleBadAddress, handleSession, handleRoleAreas);
 
-export const handle = sequence(handleSession, handleRoleAreas, handleSecurityHeaders);
+// A load or action that failed because PostgreSQL was away (restart, failover) is not a bug: the
+// person is asked to retry and handleResponse turns the 500 into a 503. Anything else is logged.
+export const handleError: HandleServerError = ({ error: err, event, status, message }) => {
+	if (isServiceUnavailable(err)) {
+		event.locals.serviceUnavailable = true;
+		console.error('[db] request failed while the database was away:', event.url.pathname);
+		return { message: SERVICE_UNAVAILABLE_MESSAGE, retry: true };
+	}
+	if (status >= 500) console.error(err);
+	return { message };
+};

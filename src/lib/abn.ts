@@ -3,6 +3,7 @@
  * test catches typos before anyone looks the number up in the register.
  */
 import { z } from 'zod';
+import { textField } from '$lib/forms/fields';
 
 /**
  * Weights of the 11 digits in the ABN check (Australian Business Register, "ABN format").
@@ -51,8 +52,7 @@ export function formatAbn(input: string): string {
 }
 
 /** Form field for an ABN: accepts spaces, outputs the 11 digits without them. */
-export const abnSchema = z
-	.string()
+export const abnSchema = textField()
 	.transform(normaliseAbn)
 	.pipe(
 		z

@@ -9,10 +9,12 @@ import {
 	DEFAULT_MIN_PUBLIC_LIABILITY_CENTS,
 	expiryStep,
 	isInsuranceLapsed,
+	isProfilePublic,
 	localDate,
 	missingParts,
 	nextStatus,
 	stageOf,
+	VETTING_STATUSES,
 	type ApplicationFacts,
 	type VettingAction,
 	type VettingStage
@@ -170,7 +172,7 @@ describe('missingParts', () => {
 });
 
 describe('canViewInstallerDocument', () => {
-	const doc = { installerId: 'inst-1', kind: 'insurance' as const };
+	const doc = { installerId: 'inst-1', kind: 'insurance' as const, profilePublic: true };
 
 	it('lets the installer and admins in, keeps owners, other installers and anonymous out', () => {
 		expect(canViewInstallerDocument({ id: 'inst-1', role: 'installer' }, doc)).toBe('allowed');
@@ -180,10 +182,25 @@ describe('canViewInstallerDocument', () => {
 		expect(canViewInstallerDocument(null, doc)).toBe('sign-in');
 	});
 
-	it('shows gallery photos to anyone', () => {
-		expect(canViewInstallerDocument(null, { installerId: 'inst-1', kind: 'gallery' })).toBe(
-			'allowed'
-		);
+	it('shows gallery photos to anyone while the profile is public', () => {
+		const gallery = { installerId: 'inst-1', kind: 'gallery' as const, profilePublic: true };
+		expect(canViewInstallerDocument(null, gallery)).toBe('allowed');
+		expect(canViewInstallerDocument({ id: 'own', role: 'owner' }, gallery)).toBe('allowed');
+	});
+
+	it('keeps gallery photos to the installer and admins while the profile is not public', () => {
+		const gallery = { installerId: 'inst-1', kind: 'gallery' as const, profilePublic: false };
+		expect(canViewInstallerDocument(null, gallery)).toBe('sign-in');
+		expect(canViewInstallerDocument({ id: 'own', role: 'owner' }, gallery)).toBe('forbidden');
+		expect(canViewInstallerDocument({ id: 'inst-1', role: 'installer' }, gallery)).toBe('allowed');
+		expect(canViewInstallerDocument({ id: 'adm', role: 'admin' }, gallery)).toBe('allowed');
+	});
+
+	it('makes only approved profiles public', () => {
+		expect(isProfilePublic('approved')).toBe(true);
+		for (const status of VETTING_STATUSES.filter((s) => s !== 'approved'))
+			expect(isProfilePublic(status)).toBe(false);
+		expect(isProfilePublic(null)).toBe(false);
 	});
 });
 

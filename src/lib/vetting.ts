@@ -314,16 +314,23 @@ export interface DocumentViewer {
 }
 
 /**
+ * Whether an installer's profile is shown to everyone: once vetted (approved), paused or not;
+ * never while a draft, under review, declined or suspended.
+ */
+export const isProfilePublic = (status: VettingStatus | null) => status === 'approved';
+
+/**
  * Whether a viewer may fetch an installer's document. Insurance certificates, photo ID and
  * qualifications are for the installer themself and admins only; gallery photos are what the
- * installer chose to show on the public profile, so anyone may see them.
+ * installer chose to show on the public profile, so anyone may see them while that profile is
+ * public (see {@link isProfilePublic}), and only the installer and admins otherwise.
  * @returns 'allowed', 'sign-in' (nobody signed in) or 'forbidden'
  */
 export function canViewInstallerDocument(
 	viewer: DocumentViewer | null,
-	doc: { installerId: string; kind: DocumentKind }
+	doc: { installerId: string; kind: DocumentKind; profilePublic: boolean }
 ): 'allowed' | 'sign-in' | 'forbidden' {
-	if (doc.kind === 'gallery') return 'allowed';
+	if (doc.kind === 'gallery' && doc.profilePublic) return 'allowed';
 	if (!viewer) return 'sign-in';
 	if (viewer.role === 'admin' || viewer.id === doc.installerId) return 'allowed';
 	return 'forbidden';

@@ -75,7 +75,28 @@ export async function uploadJobPhoto(page: Page, testId: string, buffer: Buffer)
 	return box;
 }
 
-export const test = base.extend<{ ownerPage: Page; installerPage: Page; adminPage: Page }>({
+/** Chromium's console wording when the Content-Security-Policy blocks something. */
+export const CSP_VIOLATION = /violates the following Content Security Policy/i;
+
+export const test = base.extend<{
+	ownerPage: Page;
+	installerPage: Page;
+	adminPage: Page;
+	cspViolations: string[];
+}>({
+	// Every test, in every spec: nothing the pages do may be blocked by the Content-Security-Policy
+	// (scripts, styles, map tiles, fonts). Pages of the test's own context are watched.
+	cspViolations: [
+		async ({ context }, use) => {
+			const violations: string[] = [];
+			context.on('console', (message) => {
+				if (CSP_VIOLATION.test(message.text())) violations.push(message.text());
+			});
+			await use(violations);
+			expect(violations, 'Content-Security-Policy violations').toEqual([]);
+		},
+		{ auto: true }
+	],
 	ownerPage: async ({ page }, use) => {
 		await signIn(page, DEMO.owner);
 		await use(page);

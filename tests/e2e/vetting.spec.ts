@@ -1,4 +1,5 @@
 import type { Browser, Page } from '@playwright/test';
+import { cleanPdf } from '../support/pdfs';
 import { DEMO, expect, signIn, test, uniqueEmail, waitForMail } from './fixtures';
 
 // A 1x1 PNG (PNG specification, ISO/IEC 15948: signature, IHDR, IDAT, IEND chunks).
@@ -6,8 +7,6 @@ const PNG = Buffer.from(
 	'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNkYPhfDwAChwGA60e6kgAAAABJRU5ErkJggg==',
 	'base64'
 );
-// Starts with the PDF signature "%PDF-" (ISO 32000), which is all the upload check reads.
-const PDF = Buffer.from('%PDF-1.4\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n');
 
 async function upload(page: Page, kind: string, name: string, mimeType: string, buffer: Buffer) {
 	await page.getByLabel('What is it?').selectOption({ label: kind });
@@ -28,6 +27,8 @@ test('an installer applies, an admin asks for more, then approves; e-mails arriv
 	browser
 }) => {
 	test.setTimeout(180_000);
+	// A real one-page PDF: the upload check parses it (pdf-lib) and looks for active content.
+	const PDF = await cleanPdf();
 	const email = uniqueEmail('installer');
 	const business = `Testbench Auto Electrics ${Date.now().toString(36)}`;
 

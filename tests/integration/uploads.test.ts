@@ -4,6 +4,8 @@ import { startS3Fake } from '../../local-fakes/s3';
 import { getObject } from '$lib/server/storage';
 import { storeUpload } from '$lib/server/uploads';
 import { DOCUMENT_TYPES } from '$lib/uploads';
+import { PDF_PROBLEMS } from '$lib/server/pdf';
+import { cleanPdf, encryptedPdf, hostilePdfs, htmlWithPdfSignature } from '../support/pdfs';
 
 let close: () => Promise<void>;
 
@@ -62,7 +64,7 @@ describe('upload pipeline', () => {
 	});
 
 	it('decides the type from the bytes: a PDF named .jpg is refused where photos are asked for', async () => {
-		const pdf = Buffer.from('%PDF-1.4\n1 0 obj\n<<>>\nendobj\ntrailer\n<<>>\n%%EOF\n');
+		const pdf = await cleanPdf();
 		const disguised = await storeUpload(
 			new File([pdf], 'photo.jpg', { type: 'image/jpeg' }),
 			'test'
@@ -94,6 +96,41 @@ describe('upload pipeline', () => {
 		expect(await storeUpload(new File([truncated], 'bad.jpg'), 'test')).toEqual({
 			ok: false,
 			problem: 'We could not read that picture. Is the file complete?'
+		});
+	});
+});
+
+describe('PDF check', () => {
+	const asDocument = (bytes: Buffer, name = 'policy.pdf') =>
+		storeUpload(new File([new Uint8Array(bytes)], name), 'test', DOCUMENT_TYPES);
+
+	it('stores a clean PDF byte for byte, its name without control characters', async () => {
+		const pdf = await cleanPdf();
+		const outcome = await asDocument(pdf, 'cert\u0000ificate\n.pdf');
+		if (!outcome.ok) throw new Error(outcome.problem);
+		expect(outcome.stored.originalName).toBe('certificate.pdf');
+		expect((await read(outcome.stored.objectKey)).bytes.equals(pdf)).toBe(true);
+	});
+
+	it('refuses every PDF carrying scripts, automatic actions, launch actions or attachments', async () => {
+		const cases = Object.entries(await hostilePdfs());
+		expect(cases.length).toBeGreaterThanOrEqual(6);
+		for (const [what, bytes] of cases) {
+			expect({ what, outcome: await asDocument(bytes) }).toEqual({
+				what,
+				outcome: { ok: false, problem: PDF_PROBLEMS.active }
+			});
+		}
+	});
+
+	it('refuses an HTML page that starts with the PDF signature, and an encrypted PDF', async () => {
+		expect(await asDocument(htmlWithPdfSignature(), 'page.pdf')).toEqual({
+			ok: false,
+			problem: PDF_PROBLEMS.unreadable
+		});
+		expect(await asDocument(await encryptedPdf())).toEqual({
+			ok: false,
+			problem: PDF_PROBLEMS.encrypted
 		});
 	});
 });

@@ -295,8 +295,43 @@ describe('document access', () => {
 		expect(await findViewableDocument({ id: owner.id, role: 'owner' }, crypto.randomUUID())).toBe(
 			'not-found'
 		);
-		const gallery = await findViewableDocument(null, galleryId);
-		expect(typeof gallery === 'object' && gallery.kind).toBe('gallery');
+		// Not approved yet, so the gallery is not public either.
+		expect(await findViewableDocument(null, galleryId)).toBe('sign-in');
+	});
+
+	it('serves gallery photos to anyone only while the profile is public', async () => {
+		const admin = await makeAccount('admin');
+		const owner = await makeAccount('owner');
+		const installer = await makeApplicant();
+		const galleryId = await addDocument(installer.id, 'gallery');
+		const kindFor = async (viewer: Parameters<typeof findViewableDocument>[0]) => {
+			const doc = await findViewableDocument(viewer, galleryId);
+			return typeof doc === 'object' ? doc.kind : doc;
+		};
+
+		// Under review: the installer and admins only.
+		expect(await kindFor(null)).toBe('sign-in');
+		expect(await kindFor({ id: owner.id, role: 'owner' })).toBe('forbidden');
+		expect(await kindFor({ id: installer.id, role: 'installer' })).toBe('gallery');
+		expect(await kindFor({ id: admin.id, role: 'admin' })).toBe('gallery');
+
+		const decide = (decision: 'approve' | 'suspend', expectedStatus: 'applied' | 'approved') =>
+			decideApplication({
+				adminId: admin.id,
+				installerId: installer.id,
+				decision,
+				expectedStatus,
+				message: decision === 'suspend' ? 'Complaint under review.' : null,
+				checklist: ALL_TICKED
+			});
+		expect((await decide('approve', 'applied')).ok).toBe(true);
+		expect(await kindFor(null)).toBe('gallery');
+		expect(await kindFor({ id: owner.id, role: 'owner' })).toBe('gallery');
+
+		expect((await decide('suspend', 'approved')).ok).toBe(true);
+		expect(await kindFor(null)).toBe('sign-in');
+		expect(await kindFor({ id: owner.id, role: 'owner' })).toBe('forbidden');
+		expect(await kindFor({ id: admin.id, role: 'admin' })).toBe('gallery');
 	});
 });
 

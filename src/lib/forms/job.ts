@@ -4,6 +4,7 @@
  * validated again on posting.
  */
 import { z } from 'zod';
+import { textField } from './fields';
 import { jobRequestSchema } from '$lib/scope/request';
 
 export const JOB_STEPS = [
@@ -77,9 +78,9 @@ export const TIME_WINDOWS = {
 export type TimeWindow = keyof typeof TIME_WINDOWS;
 const windowKeys = Object.keys(TIME_WINDOWS) as [TimeWindow, ...TimeWindow[]];
 
-const isoDate = z
-	.string()
-	.regex(/^\d{4}-\d{2}-\d{2}$/, { error: 'Choose a date' })
+// zod's ISO date knows month lengths and leap years: 30 February is refused, not rolled over.
+const isoDate = z.iso
+	.date({ error: 'Choose a date that exists on the calendar' })
 	.optional()
 	.or(z.literal('').transform(() => undefined));
 
@@ -89,15 +90,13 @@ export const placeStepSchema = z
 			z.enum(['mobile', 'workshop']),
 			"Choose 'at my place' or 'at the installer's workshop'"
 		),
-		place: z
-			.string({ error: 'Enter your suburb or postcode' })
+		place: textField({ error: 'Enter your suburb or postcode' })
 			.trim()
 			.min(2, { error: 'Enter your suburb or postcode' })
 			.max(60, { error: 'Keep the suburb under 60 characters' }),
 		latitude: z.number().min(-90).max(90).optional(),
 		longitude: z.number().min(-180).max(180).optional(),
-		addressLine: z
-			.string()
+		addressLine: textField()
 			.trim()
 			.max(120, { error: 'Keep the street address under 120 characters' })
 			.optional(),
@@ -119,8 +118,7 @@ export const placeStepSchema = z
 	});
 
 export const withdrawSchema = z.object({
-	reason: z
-		.string({ error: 'Tell installers why, in a few words' })
+	reason: textField({ error: 'Tell installers why, in a few words' })
 		.trim()
 		.min(5, { error: 'Tell installers why, in a few words (at least 5 characters)' })
 		.max(300, { error: 'Keep the reason under 300 characters' }),

@@ -3,13 +3,13 @@
  * both sides' forms.
  */
 import { z } from 'zod';
+import { textField } from './fields';
 
 /** The longest message a thread takes (Tapline's bound: a question, not a document). */
 export const THREAD_MESSAGE_MAX_LENGTH = 2000;
 
 export const threadMessageSchema = z.object({
-	body: z
-		.string({ error: 'Write your message' })
+	body: textField({ error: 'Write your message' })
 		.trim()
 		.min(1, { error: 'Write your message' })
 		.max(THREAD_MESSAGE_MAX_LENGTH, {

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textField } from './fields';
 import { abnSchema } from '$lib/abn';
 import { ADMIN_DECISIONS, INSTALLER_SKILLS, VETTING_STATUSES } from '$lib/vetting';
 
@@ -9,8 +10,7 @@ import { ADMIN_DECISIONS, INSTALLER_SKILLS, VETTING_STATUSES } from '$lib/vettin
 const PHONE_RE = /^(?:0|\+61)[23478]\d{8}$/;
 
 const text = (min: number, max: number, missing: string) =>
-	z
-		.string({ error: missing })
+	textField({ error: missing })
 		.trim()
 		.min(min, missing)
 		.max(max, `Keep this under ${max} characters`);
@@ -19,8 +19,7 @@ export const applicationSchema = z
 	.object({
 		businessName: text(2, 100, 'Enter your business or trading name'),
 		contactName: text(2, 80, 'Enter the name of the person we deal with'),
-		phone: z
-			.string({ error: 'Enter a phone number' })
+		phone: textField({ error: 'Enter a phone number' })
 			.transform((v) => v.replace(/[\s()-]/g, ''))
 			.pipe(z.string().regex(PHONE_RE, 'Enter an Australian number, e.g. 0412 345 678')),
 		abn: abnSchema,
@@ -36,8 +35,7 @@ export const applicationSchema = z
 		workMode: z.enum(['mobile', 'workshop', 'both'], {
 			error: 'Choose whether you travel, have a workshop, or both'
 		}),
-		workshopAddress: z
-			.string()
+		workshopAddress: textField()
 			.trim()
 			.max(200, 'Keep the address under 200 characters')
 			.default(''),
@@ -48,6 +46,18 @@ export const applicationSchema = z
 		message: 'Enter the workshop’s street address'
 	});
 
+/**
+ * Public liability policies run for a year, a few for longer (common trade practice): an expiry
+ * date more than a year past cannot be on a current certificate, and one more than five years
+ * ahead is a typo. Both are refused where they are typed.
+ */
+export const INSURANCE_EXPIRY_PAST_DAYS = 366;
+export const INSURANCE_EXPIRY_FUTURE_DAYS = 5 * 366;
+
+/** The UTC calendar date `days` from now (negative for the past), as YYYY-MM-DD. */
+const isoDateDaysFrom = (days: number) =>
+	new Date(Date.now() + days * 86_400_000).toISOString().slice(0, 10);
+
 export const insuranceSchema = z.object({
 	insurer: text(2, 100, 'Enter the insurer’s name'),
 	policyNumber: text(3, 40, 'Enter the policy number from the certificate'),
@@ -56,7 +66,14 @@ export const insuranceSchema = z.object({
 		.int('Whole dollars, please')
 		.min(1, 'Enter the cover in whole dollars')
 		.max(1_000_000_000, 'That is more cover than we can record'),
-	expiresOn: z.iso.date({ error: 'Enter the expiry date from the certificate' })
+	expiresOn: z.iso
+		.date({ error: 'Enter the expiry date from the certificate' })
+		.refine((v) => v >= isoDateDaysFrom(-INSURANCE_EXPIRY_PAST_DAYS), {
+			error: 'That date is more than a year ago. Enter the expiry date on your current certificate.'
+		})
+		.refine((v) => v <= isoDateDaysFrom(INSURANCE_EXPIRY_FUTURE_DAYS), {
+			error: 'That date is more than five years away. Check the expiry date on the certificate.'
+		})
 });
 
 export const serviceAreaSchema = z
@@ -98,13 +115,13 @@ export const weeklyHoursSchema = z.object({
 
 export const blockedDateSchema = z.object({
 	day: z.iso.date({ error: 'Choose a date' }),
-	note: z.string().trim().max(100, 'Keep the note under 100 characters').default('')
+	note: textField().trim().max(100, 'Keep the note under 100 characters').default('')
 });
 
 export const decisionSchema = z.object({
 	decision: z.enum(ADMIN_DECISIONS, { error: 'Choose a decision' }),
 	expectedStatus: z.enum(VETTING_STATUSES),
-	message: z.string().trim().max(1000, 'Keep it under 1000 characters').default(''),
+	message: textField().trim().max(1000, 'Keep it under 1000 characters').default(''),
 	identityMatches: z.boolean().default(false),
 	insuranceCurrent: z.boolean().default(false),
 	abnValidAndActive: z.boolean().default(false)

@@ -3,6 +3,7 @@
  * form posts plain fields and works without JavaScript.
  */
 import { z } from 'zod';
+import { textField } from '$lib/forms/fields';
 
 export const BODY_STYLES = [
 	'hatchback',
@@ -51,8 +52,7 @@ export const CUT_OFF_VOLTS_MIN = 11.6;
 export const CUT_OFF_VOLTS_MAX = 12.5;
 
 const requiredText = (field: string, max: number) =>
-	z
-		.string({ error: `Enter the ${field}` })
+	textField({ error: `Enter the ${field}` })
 		.trim()
 		.min(1, { error: `Enter the ${field}` })
 		.max(max, { error: `Keep the ${field} under ${max} characters` });
@@ -61,8 +61,7 @@ export const jobRequestSchema = z
 	.object({
 		make: requiredText('make', 40),
 		model: requiredText('model', 60),
-		year: z
-			.string({ error: 'Enter the year' })
+		year: textField({ error: 'Enter the year' })
 			.trim()
 			.regex(/^(19|20)\d{2}$/, { error: 'Enter the year as four digits, e.g. 2018' }),
 		bodyStyle: z.enum(BODY_STYLES, { error: 'Choose a body style' }),

@@ -58,6 +58,8 @@ export interface SessionInfo {
 
 export const SESSION_COOKIE_NAME = lucia.sessionCookieName;
 
+const SESSION_ID = /^[a-z0-9]{20,64}$/;
+
 /** Starts a session for a user and sets its cookie (httpOnly, SameSite=Lax, Secure over HTTPS). */
 export async function startSession(cookies: Cookies, userId: string): Promise<void> {
 	const created = await lucia.createSession(userId, {});
@@ -74,6 +76,13 @@ export async function readSession(
 ): Promise<{ user: SessionUser | null; session: SessionInfo | null }> {
 	const sessionId = cookies.get(SESSION_COOKIE_NAME);
 	if (!sessionId) return { user: null, session: null };
+	// Lucia's ids are 40 lower-case base32 characters: anything else (a NUL, which PostgreSQL
+	// would refuse with a 500, or junk) is no session, and is never sent to the database.
+	if (!SESSION_ID.test(sessionId)) {
+		const blank = lucia.createBlankSessionCookie();
+		cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
+		return { user: null, session: null };
+	}
 	const result = await lucia.validateSession(sessionId);
 	if (result.session?.fresh) {
 		const cookie = lucia.createSessionCookie(result.session.id);

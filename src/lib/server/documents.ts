@@ -1,6 +1,11 @@
 /** Installers' documents: recording uploads, listing them, and who may fetch one. */
 import { and, desc, eq, inArray, sql } from 'drizzle-orm';
-import { canViewInstallerDocument, type DocumentKind, type DocumentViewer } from '$lib/vetting';
+import {
+	canViewInstallerDocument,
+	isProfilePublic,
+	type DocumentKind,
+	type DocumentViewer
+} from '$lib/vetting';
 import { db, type Tx } from './db';
 import { installerDocument, installerProfile } from './db/schema';
 import type { StoredUpload } from './uploads';
@@ -78,11 +83,14 @@ export async function findViewableDocument(viewer: DocumentViewer | null, id: st
 			objectKey: installerDocument.objectKey,
 			thumbKey: installerDocument.thumbKey,
 			contentType: installerDocument.contentType,
-			originalName: installerDocument.originalName
+			originalName: installerDocument.originalName,
+			vettingStatus: installerProfile.vettingStatus
 		})
 		.from(installerDocument)
+		.leftJoin(installerProfile, eq(installerProfile.userId, installerDocument.installerId))
 		.where(eq(installerDocument.id, id));
 	if (!doc) return viewer ? ('not-found' as const) : ('sign-in' as const);
-	const decision = canViewInstallerDocument(viewer, doc);
+	const profilePublic = isProfilePublic(doc.vettingStatus);
+	const decision = canViewInstallerDocument(viewer, { ...doc, profilePublic });
 	return decision === 'allowed' ? doc : decision;
 }

@@ -10,9 +10,34 @@ export const ROLE_AREAS: ReadonlyArray<{ prefix: string; role: Role }> = [
 	{ prefix: '/admin', role: 'admin' }
 ];
 
-/** The area a path belongs to, if any. */
+/**
+ * A path as generously as any router might read it: percent-decoded until it stops changing
+ * (so `%6f` and `%256f` become `o`), backslashes as slashes, dot segments resolved, repeated
+ * slashes collapsed, lower case. Used to decide role areas, so no spelling of `/owner/...`
+ * reaches a page the router would serve without passing the guard.
+ */
+export function normalisePath(pathname: string): string {
+	let decoded = pathname;
+	for (let i = 0; i < 5; i++) {
+		let next: string;
+		try {
+			next = decodeURIComponent(decoded);
+		} catch {
+			break; // a malformed escape: keep what decoded so far
+		}
+		if (next === decoded) break;
+		decoded = next;
+	}
+	const slashes = (p: string) => p.replace(/[\\/]+/g, '/');
+	// URL resolves `.` and `..` segments; `?` and `#` stay part of the path.
+	const url = new URL(slashes(decoded).replace(/[?#]/g, encodeURIComponent), 'http://path.invalid');
+	return slashes(url.pathname).toLowerCase();
+}
+
+/** The area a path belongs to, if any, however the path is spelled. */
 export function areaFor(pathname: string) {
-	return ROLE_AREAS.find((a) => pathname === a.prefix || pathname.startsWith(`${a.prefix}/`));
+	const path = normalisePath(pathname);
+	return ROLE_AREAS.find((a) => path === a.prefix || path.startsWith(`${a.prefix}/`));
 }
 
 /** Where to send a visitor with no session: the sign-in page, returning here afterwards. */

@@ -4,6 +4,7 @@
  */
 import { and, count, desc, eq, inArray } from 'drizzle-orm';
 import {
+	isProfilePublic,
 	missingParts,
 	nextStatus,
 	stageOf,
@@ -320,7 +321,7 @@ export async function getPublicProfile(installerId: string, viewer: DocumentView
 		.where(eq(installerProfile.userId, installerId));
 	if (!row) return null;
 	const mayPreview = viewer?.role === 'admin' || viewer?.id === installerId;
-	if (row.vettingStatus !== 'approved' && !mayPreview) return null;
+	if (!isProfilePublic(row.vettingStatus) && !mayPreview) return null;
 	const gallery = await listInstallerDocuments(installerId, ['gallery']);
 	const { pausedReason, vettingStatus, ...shown } = row;
 	return {

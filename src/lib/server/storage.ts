@@ -90,6 +90,23 @@ export async function deleteObject(key: string): Promise<void> {
 	await s3().send(new DeleteObjectCommand({ Bucket: bucket(), Key: key }));
 }
 
+/** File name extensions of the types Tapline stores (uploads.ts re-encodes photos as JPEG). */
+const EXTENSIONS: Record<string, string> = { 'application/pdf': 'pdf', 'image/jpeg': 'jpg' };
+
+/**
+ * A safe download name: word characters, dots, dashes and spaces only, ending in the extension of
+ * the stored type, so a file sent as "x.html" is saved as "x.pdf" and opens in a PDF reader.
+ */
+export function downloadFileName(name: string, contentType: string) {
+	const ext = EXTENSIONS[contentType] ?? 'bin';
+	const base =
+		name
+			.replace(/\.[^.]*$/, '')
+			.replace(/[^\w.\- ]/g, '_')
+			.slice(0, 100) || 'document';
+	return `${base}.${ext}`;
+}
+
 /**
  * An HTTP response streaming a stored object, private to the one who asked: never cached by
  * shared caches, never sniffed into another type, shown inline or offered as a download.
@@ -111,7 +128,7 @@ export async function objectResponse(
 	if (options.downloadName) {
 		headers.set(
 			'content-disposition',
-			`attachment; filename="${options.downloadName.replace(/[^\w.\- ]/g, '_')}"`
+			`attachment; filename="${downloadFileName(options.downloadName, object.contentType)}"`
 		);
 	}
 	return new Response(object.body, { headers });

@@ -1,6 +1,7 @@
 /**
  * The one upload pipeline: read the posted file, decide its type from its bytes, refuse with a
- * reason a person understands, re-encode photos (no EXIF, no GPS), store in object storage.
+ * reason a person understands, re-encode photos (no EXIF, no GPS), check PDFs for active content,
+ * store in object storage.
  */
 import { randomUUID } from 'node:crypto';
 import {
@@ -11,6 +12,7 @@ import {
 	type SniffedType
 } from '$lib/uploads';
 import { prepareImage } from './images';
+import { pdfProblem } from './pdf';
 import { deleteObject, putObject } from './storage';
 
 export interface StoredUpload {
@@ -27,7 +29,8 @@ export type UploadOutcome = { ok: true; stored: StoredUpload } | { ok: false; pr
 
 /**
  * Checks and stores one posted file under `prefix/`. Photos are re-encoded as JPEG with a
- * thumbnail; PDFs (where accepted) are stored as sent.
+ * thumbnail; PDFs (where accepted) must parse and carry no scripts, automatic actions or attached
+ * files (see pdf.ts), and are then stored as sent.
  */
 export async function storeUpload(
 	file: unknown,
@@ -48,9 +51,12 @@ export async function storeUpload(
 	if (problem) return { ok: false, problem };
 	const type = sniffContentType(bytes)!;
 	const id = randomUUID();
-	const originalName = file.name.slice(0, 200) || 'upload';
+	// Control characters (NUL above all, which PostgreSQL refuses) never reach the database.
+	const originalName = file.name.replace(/\p{Cc}/gu, '').slice(0, 200) || 'upload';
 
 	if (type === 'application/pdf') {
+		const refused = await pdfProblem(bytes);
+		if (refused) return { ok: false, problem: refused };
 		const objectKey = `${prefix}/${id}.pdf`;
 		await putObject(objectKey, bytes, type);
 		return {

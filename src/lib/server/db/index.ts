@@ -8,8 +8,24 @@ if (!env.DATABASE_URL && !building) {
 	throw new Error('DATABASE_URL is not set: copy .env.example to .env or start with `npm start`.');
 }
 
-/** The one connection pool of this process. */
-export const pool = new pg.Pool({ connectionString: env.DATABASE_URL, max: 10 });
+/**
+ * The one connection pool of this process. A connection that PostgreSQL closes (restart,
+ * failover, maintenance) emits 'error'; unheard, that event ends the process, so the pool and
+ * every client it opens log it instead. The pool drops broken clients and opens fresh ones when
+ * the database answers again; meanwhile requests fail and hooks.server.ts answers them with 503.
+ */
+export const pool = new pg.Pool({
+	connectionString: env.DATABASE_URL,
+	max: 10,
+	// A database that does not answer at all (network gone) fails a request in seconds, not never.
+	connectionTimeoutMillis: 5_000
+});
+pool.on('error', (err) => console.error('[db] idle connection lost:', err.message));
+// pg-pool listens on a client only while it is idle; a client checked out between two queries of
+// a transaction needs its own listener. Its next query then fails and the pool discards it.
+pool.on('connect', (client) => {
+	client.on('error', (err) => console.error('[db] connection lost:', err.message));
+});
 
 /** The one Drizzle handle of this process. */
 export const db = drizzle(pool, { schema, casing: 'snake_case' });

@@ -13,7 +13,7 @@ import {
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
-	const redirectTo = safeRedirect(url.searchParams.get('redirectTo'), '');
+	const redirectTo = safeRedirect(url.searchParams.get('redirectTo'), url.origin, '');
 	if (locals.user) redirect(303, redirectTo || homeFor(locals.user.role));
 	return {
 		form: await superValidate({ redirectTo }, zod4(signInSchema), { errors: false }),
@@ -24,7 +24,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 };
 
 export const actions = {
-	default: async ({ request, cookies, getClientAddress }) => {
+	default: async ({ request, cookies, getClientAddress, url }) => {
 		const form = await superValidate(request, zod4(signInSchema));
 		const { password } = form.data;
 		form.data.password = '';
@@ -48,6 +48,6 @@ export const actions = {
 		}
 		await recordSuccessfulSignIn(form.data.email);
 		await startSession(cookies, account.id);
-		redirect(303, safeRedirect(form.data.redirectTo, homeFor(account.role)));
+		redirect(303, safeRedirect(form.data.redirectTo, url.origin, homeFor(account.role)));
 	}
 } satisfies Actions;

@@ -1,9 +1,11 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
+import { textField } from '$lib/forms/fields';
 import { resendVerification, verifyEmailToken } from '$lib/server/accounts';
+import { readFormData } from '$lib/server/form-data';
 import type { Actions, PageServerLoad } from './$types';
 
-const confirmSchema = z.object({ token: z.string().min(10).max(200) });
+const confirmSchema = z.object({ token: textField().min(10).max(200) });
 
 // Following the link only shows a button; the address is confirmed by a POST, so mail scanners
 // that open links do not confirm addresses on the owner's behalf.
@@ -16,7 +18,7 @@ export const load: PageServerLoad = ({ url, locals }) => ({
 
 export const actions = {
 	confirm: async ({ request }) => {
-		const parsed = confirmSchema.safeParse(Object.fromEntries(await request.formData()));
+		const parsed = confirmSchema.safeParse(Object.fromEntries((await readFormData(request)) ?? []));
 		if (!parsed.success || !(await verifyEmailToken(parsed.data.token))) {
 			return fail(400, {
 				error: 'This link has expired or was already used. Sign in and ask for a new one.'

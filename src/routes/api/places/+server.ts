@@ -1,10 +1,10 @@
 import { error, json } from '@sveltejs/kit';
-import { z } from 'zod';
+import { textField } from '$lib/forms/fields';
 import { GeocoderUnavailable, searchPlaces } from '$lib/server/geocoding';
 import { requireRole } from '$lib/server/guards';
 import type { RequestHandler } from './$types';
 
-const query = z.string().trim().min(2).max(60);
+const query = textField().trim().min(2).max(60);
 
 /** Suburb or postcode look-up for the map pickers (signed-in people only, so it is not an open proxy). */
 export const GET: RequestHandler = async ({ url }) => {

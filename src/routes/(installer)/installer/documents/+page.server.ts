@@ -2,6 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { insuranceSchema } from '$lib/forms/vetting';
+import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/form-data';
 import { requireRole } from '$lib/server/guards';
 import { discardUpload, storeUpload } from '$lib/server/uploads';
 import { addInstallerDocument, listInstallerDocuments } from '$lib/server/documents';
@@ -49,7 +50,8 @@ export const actions = {
 	},
 	upload: async ({ request }) => {
 		const installer = requireRole('installer');
-		const data = await request.formData();
+		const data = await readFormData(request);
+		if (!data) return fail(400, { uploadProblem: UNREADABLE_FORM_MESSAGE });
 		const kind = String(data.get('kind') ?? '');
 		if (!DOCUMENT_KINDS.includes(kind as DocumentKind)) {
 			return fail(400, { uploadProblem: 'Choose what kind of document this is.' });

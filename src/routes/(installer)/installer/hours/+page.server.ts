@@ -1,7 +1,9 @@
 import { fail } from '@sveltejs/kit';
 import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
+import { isCalendarDate } from '$lib/forms/fields';
 import { blockedDateSchema, HOURS_FORM_ORDER, weeklyHoursSchema } from '$lib/forms/vetting';
+import { readFormData } from '$lib/server/form-data';
 import { requireRole } from '$lib/server/guards';
 import {
 	blockDate,
@@ -73,8 +75,8 @@ export const actions = {
 	},
 	unblock: async ({ request }) => {
 		const installer = requireRole('installer');
-		const day = String((await request.formData()).get('day') ?? '');
-		if (!/^\d{4}-\d{2}-\d{2}$/.test(day)) return fail(400, { unblockProblem: 'Unknown date.' });
+		const day = String((await readFormData(request))?.get('day') ?? '');
+		if (!isCalendarDate(day)) return fail(400, { unblockProblem: 'Unknown date.' });
 		await unblockDate(installer.id, day);
 		return { unblocked: day };
 	}

@@ -4,6 +4,7 @@
  * instants in the installer's zone by {@link toQuoteInput}; the business rules live in quotes.ts.
  */
 import { z } from 'zod';
+import { isCalendarDate, textField } from '$lib/forms/fields';
 import { MAX_QUOTE_SLOTS } from '$lib/pricing';
 import { localToUtc } from '$lib/time';
 import type { QuoteInput } from '$lib/server/quotes';
@@ -17,7 +18,6 @@ const dollars = (what: string) =>
 			error: `Enter the ${what} in dollars and cents`
 		});
 
-const DATE = /^\d{4}-\d{2}-\d{2}$/;
 const TIME = /^([01]\d|2[0-3]):[0-5]\d$/;
 
 export const quoteFormSchema = z.object({
@@ -38,19 +38,22 @@ export const quoteFormSchema = z.object({
 		.max(600, { error: 'At most 10 hours' })
 		.default(120),
 	slotDate: z
-		.array(z.string().refine((v) => v === '' || DATE.test(v), { error: 'Choose a date' }))
+		.array(
+			z
+				.string()
+				.refine((v) => v === '' || isCalendarDate(v), { error: 'Choose a date that exists' })
+		)
 		.max(MAX_QUOTE_SLOTS)
 		.default(['', '', '']),
 	slotTime: z
 		.array(z.string().refine((v) => v === '' || TIME.test(v), { error: 'Choose a start time' }))
 		.max(MAX_QUOTE_SLOTS)
 		.default(['', '', '']),
-	message: z
-		.string()
+	message: textField()
 		.trim()
 		.max(1000, { error: 'Keep the message under 1,000 characters' })
 		.default(''),
-	expiresOn: z.string().regex(DATE, { error: 'Choose the last day the quote holds' })
+	expiresOn: z.iso.date({ error: 'Choose the last day the quote holds' })
 });
 export type QuoteForm = z.output<typeof quoteFormSchema>;
 

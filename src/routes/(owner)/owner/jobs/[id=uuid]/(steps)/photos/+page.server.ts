@@ -2,6 +2,7 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { photoKindSchema, type PhotoKind } from '$lib/forms/job';
 import { listJobPhotos, setJobPhoto } from '$lib/server/jobs';
 import { loadEditableJob } from '../editable-job';
+import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/form-data';
 import { deleteObject } from '$lib/server/storage';
 import { discardUpload, storeUpload } from '$lib/server/uploads';
 import type { Actions, PageServerLoad } from './$types';
@@ -16,7 +17,8 @@ const refuse = (kind: string, problem: string, status = 400) => fail(status, { k
 export const actions = {
 	upload: async ({ request, params }) => {
 		const { owner, job } = await loadEditableJob(params.id);
-		const data = await request.formData();
+		const data = await readFormData(request);
+		if (!data) return refuse('', UNREADABLE_FORM_MESSAGE);
 		const kind = photoKindSchema.safeParse(data.get('kind'));
 		if (!kind.success) return refuse('', 'Say which photo this is.');
 		const outcome = await storeUpload(data.get('photo'), `job-photos/${job.id}`);
@@ -45,7 +47,7 @@ export const actions = {
 	},
 	remove: async ({ request, params }) => {
 		const { owner, job } = await loadEditableJob(params.id);
-		const kind = photoKindSchema.safeParse((await request.formData()).get('kind'));
+		const kind = photoKindSchema.safeParse((await readFormData(request))?.get('kind'));
 		if (!kind.success) return refuse('', 'Say which photo to remove.');
 		const result = await setJobPhoto(job.id, owner.id, kind.data);
 		if (!result.ok) {

@@ -3,6 +3,7 @@ import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { threadMessageSchema } from '$lib/forms/thread';
+import { textField } from '$lib/forms/fields';
 import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
@@ -15,7 +16,7 @@ import { titleOrUntitled } from '$lib/posted-job';
 
 const bookSchema = z.object({
 	quoteId: z.uuid(),
-	slot: z.string({ error: 'Choose a time' }).min(1, { error: 'Choose one of the times offered' })
+	slot: textField({ error: 'Choose a time' }).min(1, { error: 'Choose one of the times offered' })
 });
 const NOT_FOUND = 'There is no such quote on your jobs.';
 

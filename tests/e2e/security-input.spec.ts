@@ -1,0 +1,246 @@
+/**
+ * Hostile input against the running app (issue 11, items 5, 6 and 16): where a sign-in may send
+ * a person, NUL characters in fields and addresses, unreadable form bodies, days that do not
+ * exist and insurance dates long past. Each must be a clear 4xx that writes nothing, never a 500.
+ */
+import { DEMO, DEMO_PASSWORD, expect, test, uniqueEmail } from './fixtures';
+import {
+	BASE_URL,
+	closeQueries,
+	newAccount,
+	newInstallerWithProfile,
+	postBrokenMultipart,
+	postForm,
+	query
+} from './support/requests';
+
+test.afterAll(closeQueries);
+
+const NUL = '\u0000';
+const onThisSite = (location: string | undefined) =>
+	new URL(location ?? 'missing:', BASE_URL).origin === new URL(BASE_URL).origin;
+
+// What browsers make of a Location header (WHATWG URL): tabs and newlines are dropped and
+// backslashes are slashes, so each of these, taken as it is, leads to another site or to a 500.
+const HOSTILE_TARGETS = [
+	'/\t/other.example',
+	'/\n/other.example',
+	'/\r\n/other.example',
+	'/\\other.example',
+	'//other.example',
+	'https://other.example/'
+];
+
+test('signing in goes only to paths on this site, however the target is spelled', async ({
+	request
+}) => {
+	for (const redirectTo of HOSTILE_TARGETS) {
+		const res = await postForm(request, '/sign-in', {
+			email: DEMO.owner,
+			password: DEMO_PASSWORD,
+			redirectTo
+		});
+		const location = res.headers()['location'];
+		expect({ redirectTo, status: res.status(), onThisSite: onThisSite(location) }).toEqual({
+			redirectTo,
+			status: 303,
+			onThisSite: true
+		});
+	}
+	// Already signed in (the last post left a session): the page's own redirect is checked too.
+	for (const redirectTo of HOSTILE_TARGETS) {
+		const res = await request.get(`/sign-in?redirectTo=${encodeURIComponent(redirectTo)}`, {
+			maxRedirects: 0
+		});
+		expect({ redirectTo, status: res.status() }).toEqual({ redirectTo, status: 303 });
+		expect(onThisSite(res.headers()['location'])).toBe(true);
+	}
+	// A real path still works.
+	const res = await postForm(request, '/sign-in', {
+		email: DEMO.owner,
+		password: DEMO_PASSWORD,
+		redirectTo: '/owner/jobs/new'
+	});
+	expect(res.headers()['location']).toBe('/owner/jobs/new');
+});
+
+test('a NUL in a signed-out form field is a 400, and no account is made', async ({ request }) => {
+	const email = uniqueEmail('nul');
+	const cases: Array<[string, Record<string, string>]> = [
+		[
+			'/sign-up',
+			{ role: 'owner', displayName: `Nul${NUL}Name`, email, password: 'long enough passphrase' }
+		],
+		['/sign-up', { role: 'owner', displayName: 'Nul Name', email, password: `long${NUL}enough` }],
+		['/sign-in', { email: DEMO.owner, password: DEMO_PASSWORD, redirectTo: `/owner${NUL}` }],
+		[
+			'/reset-password',
+			{
+				token: `abcdefghijklmnop${NUL}qrstuvwxyz`,
+				password: 'long enough passphrase',
+				confirmPassword: 'long enough passphrase'
+			}
+		],
+		['/verify-email?/confirm', { token: `abcdefghijklmnop${NUL}qrst` }]
+	];
+	for (const [path, fields] of cases) {
+		const res = await postForm(request, path, fields);
+		expect({ path, fields: Object.keys(fields), status: res.status() }).toMatchObject({
+			path,
+			status: 400
+		});
+	}
+	expect(await query(`SELECT id FROM "user" WHERE email = $1`, [email])).toEqual([]);
+});
+
+test('a NUL in a signed-in form field is a 400 and leaves the data as it was', async ({
+	browser
+}) => {
+	const owner = await newAccount(browser, 'owner', 'nul-owner');
+	const created = await postForm(owner.request, '/owner/jobs/new', {});
+	const jobId = created.headers()['location']?.match(/\/owner\/jobs\/([^/]+)\/vehicle/)?.[1];
+	expect(jobId).toBeTruthy();
+	const draft = async () =>
+		(await query<{ draft: unknown }>(`SELECT draft FROM job WHERE id = $1`, [jobId]))[0]?.draft;
+	const before = await draft();
+
+	const vehicle = {
+		make: 'Demo',
+		model: 'Tourer',
+		year: '2019',
+		bodyStyle: 'wagon',
+		fuseFamily: 'mini',
+		batteryType: 'agm',
+		curtainAirbags: 'yes'
+	};
+	const place = { locationMode: 'mobile', place: 'Norwood', addressLine: '12 Example Street' };
+	const cases: Array<[string, Record<string, string>]> = [
+		[`/owner/jobs/${jobId}/vehicle`, { ...vehicle, make: `De${NUL}mo` }],
+		[`/owner/jobs/${jobId}/vehicle`, { ...vehicle, model: `Tour${NUL}er` }],
+		[`/owner/jobs/${jobId}/place`, { ...place, place: `Nor${NUL}wood` }],
+		[`/owner/jobs/${jobId}/place`, { ...place, addressLine: `12 Example${NUL} Street` }]
+	];
+	for (const [path, fields] of cases) {
+		const res = await postForm(owner.request, path, fields);
+		expect({ path, status: res.status() }).toEqual({ path, status: 400 });
+	}
+	expect(await draft()).toEqual(before);
+
+	const installer = await newAccount(browser, 'installer', 'nul-installer');
+	const application = await postForm(installer.request, '/installer/application', {
+		businessName: `Nul${NUL} Fitting`,
+		contactName: 'Testing Person',
+		phone: '0412 345 678',
+		abn: '51 824 753 556',
+		yearsInTrade: '5',
+		skills: ['parking-mode'],
+		workMode: 'mobile',
+		baseSuburb: 'Norwood'
+	});
+	expect(application.status()).toBe(400);
+	expect(
+		await query(`SELECT user_id FROM installer_profile WHERE user_id = $1`, [installer.id])
+	).toEqual([]);
+	await Promise.all([owner.context.close(), installer.context.close()]);
+});
+
+test('a NUL in the address or a route parameter is a 400, not a 500', async ({
+	request,
+	ownerPage
+}) => {
+	const anonymous = [
+		'/installers/%00',
+		'/installers/abc%00def',
+		'/media/installer-documents/%00',
+		'/sign-in?redirectTo=%2Fowner%00'
+	];
+	const signedIn = [
+		'/owner/jobs/%00',
+		'/owner/jobs/%00/vehicle',
+		'/owner/bookings/%00',
+		'/media/job-photos/%00/full',
+		'/api/places?q=Nor%00wood'
+	];
+	for (const path of anonymous) {
+		const res = await request.get(path, { maxRedirects: 0 });
+		expect({ path, status: res.status() }).toEqual({ path, status: 400 });
+	}
+	for (const path of signedIn) {
+		const res = await ownerPage.request.get(path, { maxRedirects: 0 });
+		expect({ path, status: res.status() }).toEqual({ path, status: 400 });
+	}
+});
+
+test('actions that read the form themselves answer an unreadable body with 400', async ({
+	request,
+	browser
+}) => {
+	expect((await postBrokenMultipart(request, '/verify-email?/confirm')).status()).toBe(400);
+
+	const owner = await newAccount(browser, 'owner', 'broken-body');
+	const created = await postForm(owner.request, '/owner/jobs/new', {});
+	const jobPath = created.headers()['location']?.replace(/\/vehicle$/, '');
+	expect(jobPath).toMatch(/^\/owner\/jobs\//);
+	for (const action of ['upload', 'remove']) {
+		const res = await postBrokenMultipart(owner.request, `${jobPath}/photos?/${action}`);
+		expect({ action, status: res.status() }).toEqual({ action, status: 400 });
+	}
+
+	const installer = await newInstallerWithProfile(browser, 'broken-body');
+	for (const path of ['/installer/documents?/upload', '/installer/hours?/unblock']) {
+		const res = await postBrokenMultipart(installer.request, path);
+		expect({ path, status: res.status() }).toEqual({ path, status: 400 });
+	}
+	expect(
+		await query(`SELECT id FROM installer_document WHERE installer_id = $1`, [installer.id])
+	).toEqual([]);
+	await Promise.all([owner.context.close(), installer.context.close()]);
+});
+
+test('days that do not exist are refused where they are typed', async ({ browser }) => {
+	// The next 30 February (no year has one), within the 90 days an owner may look ahead.
+	const year = new Date().getUTCFullYear() + 1;
+	const owner = await newAccount(browser, 'owner', 'bad-date');
+	const created = await postForm(owner.request, '/owner/jobs/new', {});
+	const jobPath = created.headers()['location']?.replace(/\/vehicle$/, '');
+	const place = await postForm(owner.request, `${jobPath}/place`, {
+		locationMode: 'workshop',
+		place: 'Norwood',
+		date1: `${year}-02-30`,
+		window1: 'morning'
+	});
+	expect(place.status()).toBe(400);
+	expect(await place.text()).toContain('Choose a date that exists on the calendar');
+
+	const installer = await newInstallerWithProfile(browser, 'bad-date');
+	for (const day of [`${year}-02-30`, `${year}-04-31`, `${year}-13-01`]) {
+		const res = await postForm(installer.request, '/installer/hours?/unblock', { day });
+		expect({ day, status: res.status() }).toEqual({ day, status: 400 });
+	}
+	await Promise.all([owner.context.close(), installer.context.close()]);
+});
+
+test('an insurance expiry date long past is refused with a reason, and not saved', async ({
+	browser
+}) => {
+	const installer = await newInstallerWithProfile(browser, 'old-cover');
+	const insurance = {
+		insurer: 'Gumleaf Mutual',
+		policyNumber: 'PL-778899',
+		coverDollars: '20000000'
+	};
+	for (const expiresOn of ['1999-06-30', '2001-01-01']) {
+		const res = await postForm(installer.request, '/installer/documents?/saveInsurance', {
+			...insurance,
+			expiresOn
+		});
+		expect(res.status()).toBe(400);
+		expect(await res.text()).toContain('more than a year ago');
+	}
+	const [row] = await query<{ insurer: string | null }>(
+		`SELECT insurer FROM installer_profile WHERE user_id = $1`,
+		[installer.id]
+	);
+	expect(row?.insurer ?? null).toBeNull();
+	await installer.context.close();
+});
