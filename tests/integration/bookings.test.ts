@@ -2,7 +2,13 @@ import { and, eq, inArray } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { booking, emailOutbox, job, quote } from '$lib/server/db/schema';
-import { bookQuote, confirmBooking, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
+import {
+	bookQuote,
+	confirmBooking,
+	getLiveBookingForJob,
+	HOLD_MINUTES,
+	lapseExpiredHolds
+} from '$lib/server/bookings';
 import { startHeldFundsPayment } from '$lib/server/payments';
 import { listQuotesForOwner, submitQuote } from '$lib/server/quotes';
 import {
@@ -175,6 +181,12 @@ describe('holds and payment', () => {
 		await bookQuote(ownerId, j.id, q.id, q.slots[0]!.start);
 		expect(await lapseExpiredHolds({ jobId: j.id })).toBe(0);
 		const later = new Date(Date.now() + (HOLD_MINUTES + 1) * 60_000);
+		// Reading never writes: before the sweep, the run-out hold already reads as no live booking
+		// while its row still says awaiting payment.
+		expect(await getLiveBookingForJob(j.id)).not.toBeNull();
+		expect(await getLiveBookingForJob(j.id, later)).toBeNull();
+		const [unswept] = await db.select().from(booking).where(eq(booking.jobId, j.id));
+		expect(unswept?.status).toBe('awaiting_payment');
 		expect(await lapseExpiredHolds({ jobId: j.id }, later)).toBe(1);
 		const [b] = await db.select().from(booking).where(eq(booking.jobId, j.id));
 		expect(b?.status).toBe('lapsed');

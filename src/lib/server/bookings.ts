@@ -6,7 +6,7 @@
  * the same installer's time meet the exclusion constraint of migration 0002, and the loser gets a
  * 409 with a clear message. Holds that run out lapse, and the slot and the job open again.
  */
-import { and, eq, inArray, lte, ne, type SQL } from 'drizzle-orm';
+import { and, eq, gt, inArray, lte, ne, or, type SQL } from 'drizzle-orm';
 import { formatSlot } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
 import { db, type Tx } from './db';
@@ -273,13 +273,22 @@ export async function getOwnerBooking(bookingId: string, ownerId: string) {
 	return row ?? null;
 }
 
-/** The live booking of a job, if any. */
-export async function getLiveBookingForJob(jobId: string) {
+/**
+ * The live booking of a job at `now`, if any: confirmed, or provisional with its hold still
+ * running (a hold that ran out reads as gone before the schedule lapses it).
+ */
+export async function getLiveBookingForJob(jobId: string, now = new Date()) {
 	const [row] = await db
 		.select({ id: booking.id, installerId: booking.installerId, status: booking.status })
 		.from(booking)
 		.where(
-			and(eq(booking.jobId, jobId), inArray(booking.status, ['awaiting_payment', 'confirmed']))
+			and(
+				eq(booking.jobId, jobId),
+				or(
+					eq(booking.status, 'confirmed'),
+					and(eq(booking.status, 'awaiting_payment'), gt(booking.holdExpiresAt, now))
+				)
+			)
 		);
 	return row ?? null;
 }

@@ -77,7 +77,7 @@ export async function unblockDate(installerId: string, day: string) {
  * one after another: inside a transaction they share one connection, which takes one query at a
  * time.
  */
-export async function loadDiary(tx: Tx | typeof db, installerId: string, now: Date) {
+export async function loadDiary(installerId: string, now: Date, tx: Tx | typeof db = db) {
 	const hours = await getWeeklyHours(installerId, tx);
 	const blocked = await tx
 		.select({ day: installerBlockedDate.day })

@@ -2,7 +2,7 @@
  * Installers' own records: the application, insurance details, service area, the status page,
  * submitting for vetting and the public profile.
  */
-import { and, count, desc, eq, inArray } from 'drizzle-orm';
+import { and, count, desc, eq, inArray, isNull } from 'drizzle-orm';
 import {
 	isProfilePublic,
 	missingParts,
@@ -48,6 +48,21 @@ export async function getInstallerProfile(installerId: string): Promise<Installe
 		.from(installerProfile)
 		.where(eq(installerProfile.userId, installerId));
 	return row ?? null;
+}
+
+/** Whether the installer is vetted and not paused: who may quote and see open jobs' photos. */
+export async function isQuotingInstaller(installerId: string): Promise<boolean> {
+	const [row] = await db
+		.select({ id: installerProfile.userId })
+		.from(installerProfile)
+		.where(
+			and(
+				eq(installerProfile.userId, installerId),
+				eq(installerProfile.vettingStatus, 'approved'),
+				isNull(installerProfile.pausedReason)
+			)
+		);
+	return Boolean(row);
 }
 
 /** Stages in which the installer may change the application itself. */

@@ -119,7 +119,7 @@ export async function submitQuote(
 		} catch {
 			return refuse(400, 'Enter every amount as dollars and cents of $0 or more.');
 		}
-		const diary = await loadDiary(tx, installerId, now);
+		const diary = await loadDiary(installerId, now, tx);
 		const problems = quoteProblems({
 			totalCents: priced.totalCents,
 			slots: input.slots,

@@ -6,7 +6,6 @@
 import { addGst } from '$lib/money';
 import { candidateSlots } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
-import { db } from '$lib/server/db';
 import type { InstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { loadDiary } from '$lib/server/diary';
 import type { QuoteForm } from './quote-form';
@@ -48,7 +47,7 @@ export async function quoteFormDefaults(
 	const price = scope?.price;
 	const labourEx = price ? Math.round((price.labourExGst.min + price.labourExGst.max) / 2) : 0;
 	const duration = scope ? Math.max(60, Math.ceil(scope.labour.maxMinutes / 30) * 30) : 120;
-	const diary = await loadDiary(db, ctx.id, now);
+	const diary = await loadDiary(ctx.id, now);
 	const preferred = new Set(found.preferredWindows.map((w) => w.date));
 	const free = candidateSlots({
 		hours: diary.hours,

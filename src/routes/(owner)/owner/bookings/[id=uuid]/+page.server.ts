@@ -1,5 +1,6 @@
 import { error, fail, redirect } from '@sveltejs/kit';
-import { getOwnerBooking, lapseExpiredHolds } from '$lib/server/bookings';
+import { bookingStatusAt } from '$lib/holds';
+import { getOwnerBooking } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { startHeldFundsPayment } from '$lib/server/payments';
 import { formatSlot } from '$lib/schedule';
@@ -10,16 +11,14 @@ const NOT_FOUND = 'There is no such booking among yours.';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const owner = requireRole('owner');
-	const found = await getOwnerBooking(params.id, owner.id);
-	if (!found) error(404, NOT_FOUND);
-	// An ended hold is lapsed on sight rather than shown as still held.
-	await lapseExpiredHolds({ jobId: found.jobId });
-	const row = (await getOwnerBooking(params.id, owner.id)) ?? found;
+	const row = await getOwnerBooking(params.id, owner.id);
+	if (!row) error(404, NOT_FOUND);
 	const b = row.booking;
 	return {
 		booking: {
 			id: b.id,
-			status: b.status,
+			// A hold that ran out reads as lapsed now; the schedule records it within a minute.
+			status: bookingStatusAt(b, new Date()),
 			totalCents: b.totalCents,
 			slot: formatSlot(
 				{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
@@ -40,7 +39,7 @@ export const actions = {
 		const owner = requireRole('owner');
 		const found = await getOwnerBooking(params.id, owner.id);
 		if (!found) error(404, NOT_FOUND);
-		if (found.booking.status !== 'awaiting_payment') {
+		if (bookingStatusAt(found.booking, new Date()) !== 'awaiting_payment') {
 			return fail(409, { problem: 'This booking is not waiting for payment.' });
 		}
 		const started = await startHeldFundsPayment(found.booking.id);

@@ -1,7 +1,8 @@
 import { error } from '@sveltejs/kit';
 import { z } from 'zod';
 import { BEST_FIT_FORMULA } from '$lib/ranking';
-import { getLiveBookingForJob, lapseExpiredHolds } from '$lib/server/bookings';
+import { jobStatusShown, quoteStatusShown } from '$lib/holds';
+import { getLiveBookingForJob } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { listAskingInstallers } from '$lib/server/threads';
@@ -22,8 +23,6 @@ const DESCENDING_FIRST: readonly ComparisonSort[] = ['rating', 'fits', 'warranty
 
 export const load: PageServerLoad = async ({ params, url }) => {
 	const owner = requireRole('owner');
-	// A hold that ran out is lapsed on sight, so the owner never sees a stale "booked".
-	await lapseExpiredHolds({ jobId: params.id });
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, NOT_YOUR_JOB);
 	const { sort, dir: asked } = sortSchema.parse(Object.fromEntries(url.searchParams));
@@ -37,10 +36,15 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		job: {
 			id: job.id,
 			title: titleOrUntitled(job.title),
-			status: job.status,
+			// A hold that ran out reads as over at once, so the owner never sees a stale "booked".
+			status: jobStatusShown(job.status, booking !== null),
 			timeZone: job.timeZone
 		},
-		rows: compareQuotes(quotes ?? [], sort, dir),
+		rows: compareQuotes(
+			(quotes ?? []).map((q) => ({ ...q, status: quoteStatusShown(q.status, booking !== null) })),
+			sort,
+			dir
+		),
 		asking,
 		booking,
 		sort,

@@ -4,7 +4,8 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { threadMessageSchema } from '$lib/forms/thread';
 import { textField } from '$lib/forms/fields';
-import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
+import { jobStatusShown, quoteStatusShown } from '$lib/holds';
+import { bookQuote, getLiveBookingForJob, HOLD_MINUTES } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { refusalMessage } from '$lib/server/respond';
@@ -22,14 +23,17 @@ const NOT_FOUND = 'There is no such quote on your jobs.';
 
 export const load: PageServerLoad = async ({ params, url }) => {
 	const owner = requireRole('owner');
-	await lapseExpiredHolds({ jobId: params.id });
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, NOT_FOUND);
-	const [quotes, messages] = await Promise.all([
+	const [quotes, messages, live] = await Promise.all([
 		listQuotesForOwner(job.id, owner.id),
-		listJobMessages(job.id, params.installerId)
+		listJobMessages(job.id, params.installerId),
+		getLiveBookingForJob(job.id)
 	]);
-	const q = quotes?.find((x) => x.installerId === params.installerId) ?? null;
+	// A hold that ran out reads as over at once (booking it again lapses it for good).
+	const jobStatus = jobStatusShown(job.status, live !== null);
+	const found = quotes?.find((x) => x.installerId === params.installerId) ?? null;
+	const q = found && { ...found, status: quoteStatusShown(found.status, live !== null) };
 	if (!q && messages.length === 0) error(404, NOT_FOUND);
 	const now = Date.now();
 	const [bookForm, replyForm] = await Promise.all([
@@ -40,7 +44,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		job: {
 			id: job.id,
 			title: titleOrUntitled(job.title),
-			status: job.status,
+			status: jobStatus,
 			timeZone: job.timeZone
 		},
 		quote: q && {
@@ -64,7 +68,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			}))
 		},
 		bookable:
-			job.status === 'collecting_quotes' &&
+			jobStatus === 'collecting_quotes' &&
 			q?.status === 'live' &&
 			(!q.expiresAt || q.expiresAt.getTime() > now),
 		holdMinutes: HOLD_MINUTES,
