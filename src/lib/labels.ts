@@ -147,3 +147,10 @@ export const WORK_MODE_LABELS: Record<'mobile' | 'workshop', string> = {
 	mobile: 'Mobile (at the owner’s place)',
 	workshop: 'At the installer’s workshop'
 };
+
+/**
+ * Said when a message had contact details hidden. Messages are masked until the job is booked with
+ * that installer; what was hidden stays hidden, later messages are not masked.
+ */
+export const CONTACTS_HIDDEN_NOTE =
+	'Phone numbers, e-mail addresses and links in it were hidden: Tapline hides contact details until the owner books. Messages sent after booking are not hidden.';

@@ -1,6 +1,7 @@
+import { takeNotice } from '$lib/server/notice';
 import type { LayoutServerLoad } from './$types';
 
-export const load: LayoutServerLoad = ({ locals }) => {
+export const load: LayoutServerLoad = ({ locals, cookies }) => {
 	// Only fields that are safe to show in the browser.
 	const user = locals.user
 		? {
@@ -9,5 +10,5 @@ export const load: LayoutServerLoad = ({ locals }) => {
 				emailVerified: locals.user.emailVerified
 			}
 		: null;
-	return { user };
+	return { user, notice: takeNotice(cookies) };
 };

@@ -102,7 +102,12 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await questions.getByLabel('Reply').fill('Yes, it lives in a carport.');
 	await questions.getByRole('button', { name: 'Send', exact: true }).click();
 	await expect(owner.getByTestId('thread')).toContainText('Yes, it lives in a carport.');
-	await expect(questions.getByRole('status')).toHaveText('Sent.');
+	// The notice is read once: a reload does not show it again.
+	const notice = owner.locator('main > p[role=status]');
+	await expect(notice).toHaveText('Sent.');
+	await owner.reload();
+	await expect(owner.getByTestId('thread')).toContainText('Yes, it lives in a carport.');
+	await expect(notice).toHaveCount(0);
 	await owner.getByRole('radio').first().check();
 	await owner.getByRole('button', { name: 'Book this time' }).click();
 	await expect(owner.getByTestId('booking-status')).toHaveText('Provisional: waiting for payment');

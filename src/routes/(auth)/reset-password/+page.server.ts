@@ -1,8 +1,9 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { fail } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { resetPasswordSchema } from '$lib/forms/auth';
 import { resetPassword } from '$lib/server/accounts';
+import { redirectWithNotice } from '$lib/server/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {
@@ -14,7 +15,7 @@ export const load: PageServerLoad = async ({ url }) => {
 };
 
 export const actions = {
-	default: async ({ request }) => {
+	default: async ({ request, cookies }) => {
 		const form = await superValidate(request, zod4(resetPasswordSchema));
 		const { password } = form.data;
 		form.data.password = '';
@@ -27,6 +28,6 @@ export const actions = {
 				{ status: 400 }
 			);
 		}
-		redirect(303, '/sign-in?reset=1');
+		redirectWithNotice(cookies, '/sign-in', 'Your password is changed. Sign in with the new one.');
 	}
 } satisfies Actions;

@@ -16,10 +16,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const redirectTo = safeRedirect(url.searchParams.get('redirectTo'), url.origin, '');
 	if (locals.user) redirect(303, redirectTo || homeFor(locals.user.role));
 	return {
-		form: await superValidate({ redirectTo }, zod4(signInSchema), { errors: false }),
-		notice: url.searchParams.has('reset')
-			? 'Your password is changed. Sign in with the new one.'
-			: null
+		form: await superValidate({ redirectTo }, zod4(signInSchema), { errors: false })
 	};
 };
 

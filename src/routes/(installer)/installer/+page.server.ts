@@ -1,7 +1,7 @@
-import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
 import { refusalFail } from '$lib/server/respond';
+import { redirectWithNotice } from '$lib/server/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
@@ -25,10 +25,14 @@ export const load: PageServerLoad = async () => {
 };
 
 export const actions = {
-	submit: async () => {
+	submit: async ({ cookies }) => {
 		const installer = requireRole('installer');
 		const result = await submitApplication(installer.id);
 		if (!result.ok) return refusalFail(result);
-		redirect(303, '/installer?sent=1');
+		redirectWithNotice(
+			cookies,
+			'/installer',
+			'Sent. We e-mailed you a receipt; an admin will look at it soon.'
+		);
 	}
 } satisfies Actions;

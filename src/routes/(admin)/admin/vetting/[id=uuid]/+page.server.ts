@@ -1,10 +1,12 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { error, fail } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { decisionSchema } from '$lib/forms/vetting';
 import { requireRole } from '$lib/server/guards';
 import { decideApplication, getApplicationForReview } from '$lib/server/vetting';
 import { refusalMessage } from '$lib/server/respond';
+import { DECISION_LABELS } from '$lib/labels';
+import { redirectWithNotice } from '$lib/server/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -20,7 +22,7 @@ export const load: PageServerLoad = async ({ params }) => {
 };
 
 export const actions = {
-	decide: async ({ request, params }) => {
+	decide: async ({ request, params, cookies }) => {
 		const admin = requireRole('admin');
 		const form = await superValidate(request, zod4(decisionSchema));
 		if (!form.valid) return fail(400, { form });
@@ -34,6 +36,10 @@ export const actions = {
 			checklist
 		});
 		if (!result.ok) return refusalMessage(form, result);
-		redirect(303, `/admin/vetting/${params.id}?decided=${decision}`);
+		redirectWithNotice(
+			cookies,
+			`/admin/vetting/${params.id}`,
+			`${DECISION_LABELS[decision]}: recorded, and the installer has been e-mailed.`
+		);
 	}
 } satisfies Actions;

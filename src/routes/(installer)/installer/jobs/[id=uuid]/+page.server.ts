@@ -11,6 +11,8 @@ import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuoteRevisions, submitQuote, withdrawQuote } from '$lib/server/quotes';
 import { quoteFormSchema, toQuoteInput } from './quote-form';
 import { quoteFormDefaults } from './quote-defaults';
+import { CONTACTS_HIDDEN_NOTE as HIDDEN_NOTE } from '$lib/labels';
+import { redirectWithNotice } from '$lib/server/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = 'There is no such job on your board.';
@@ -22,7 +24,7 @@ async function context() {
 	return { installer, ctx };
 }
 
-export const load: PageServerLoad = async ({ params, url }) => {
+export const load: PageServerLoad = async ({ params }) => {
 	const { installer, ctx } = await context();
 	const found = await getJobForInstaller(params.id, ctx);
 	if (!found) error(404, NOT_FOUND);
@@ -70,16 +72,12 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		mayQuote: found.status === 'collecting_quotes' && found.problem === null && ctx.canQuote,
 		form,
 		askForm,
-		timeZone: ctx.timeZone,
-		flash: {
-			quoted: url.searchParams.get('quoted'),
-			masked: url.searchParams.has('masked')
-		}
+		timeZone: ctx.timeZone
 	};
 };
 
 export const actions = {
-	quote: async ({ request, params }) => {
+	quote: async ({ request, params, cookies }) => {
 		const { installer, ctx } = await context();
 		const form = await superValidate(request, zod4(quoteFormSchema));
 		if (!form.valid) return fail(400, { form });
@@ -96,8 +94,11 @@ export const actions = {
 				message: (result.problems ?? [result.message]).join(' ')
 			});
 		}
-		const masked = result.masked.length > 0 ? '&masked=1' : '';
-		redirect(303, `/installer/jobs/${params.id}?quoted=${String(result.revision)}${masked}`);
+		redirectWithNotice(
+			cookies,
+			`/installer/jobs/${params.id}`,
+			`Quote sent (revision ${String(result.revision)}). The owner gets an e-mail; you can revise it until they book.${result.masked.length > 0 ? ` ${HIDDEN_NOTE}` : ''}`
+		);
 	},
 	withdraw: async ({ params }) => {
 		const { installer } = await context();
@@ -105,7 +106,7 @@ export const actions = {
 		if (!result.ok) return refusalFail(result);
 		redirect(303, `/installer/jobs/${params.id}`);
 	},
-	ask: async ({ request, params }) => {
+	ask: async ({ request, params, cookies }) => {
 		const { installer } = await context();
 		const askForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!askForm.valid) return fail(400, { askForm });
@@ -116,7 +117,10 @@ export const actions = {
 			askForm.data.body
 		);
 		if (!sent.ok) return refusalMessage(askForm, sent);
-		const masked = sent.masked.length > 0 ? '?masked=1' : '';
-		redirect(303, `/installer/jobs/${params.id}${masked}#questions`);
+		redirectWithNotice(
+			cookies,
+			`/installer/jobs/${params.id}#questions`,
+			sent.masked.length > 0 ? `Sent. ${HIDDEN_NOTE}` : 'Sent.'
+		);
 	}
 } satisfies Actions;

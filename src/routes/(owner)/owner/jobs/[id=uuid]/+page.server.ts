@@ -8,7 +8,7 @@ import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import { refusalMessage } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ params, url }) => {
+export const load: PageServerLoad = async ({ params }) => {
 	const owner = requireRole('owner');
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, NOT_YOUR_JOB);
@@ -17,7 +17,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		superValidate(zod4(withdrawSchema), { errors: false })
 	]);
 	const { draft: _draft, ...shown } = job;
-	return { job: shown, photos, withdrawForm, justPosted: url.searchParams.has('posted') };
+	return { job: shown, photos, withdrawForm };
 };
 
 export const actions = {

@@ -1,4 +1,5 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { error, fail } from '@sveltejs/kit';
+import { redirectWithNotice } from '$lib/server/notice';
 import type { JobStep } from '$lib/forms/job';
 import { computeScope, jobRequestSchema } from '$lib/scope';
 import { draftProblems, postJob } from '$lib/server/jobs';
@@ -19,7 +20,7 @@ export const load: PageServerLoad = async ({ params }) => {
 };
 
 export const actions = {
-	post: async ({ params }) => {
+	post: async ({ params, cookies }) => {
 		const { owner } = await loadEditableJob(params.id);
 		const result = await postJob(params.id, owner.id);
 		if (!result.ok) {
@@ -30,6 +31,10 @@ export const actions = {
 			);
 			return fail(result.status, { problems });
 		}
-		redirect(303, `/owner/jobs/${params.id}?posted=1`);
+		redirectWithNotice(
+			cookies,
+			`/owner/jobs/${params.id}`,
+			'Posted. Vetted installers near you can now see the scope sheet and quote.'
+		);
 	}
 } satisfies Actions;

@@ -12,6 +12,8 @@ import { refusalMessage } from '$lib/server/respond';
 import { formatSlot } from '$lib/schedule';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
+import { CONTACTS_HIDDEN_NOTE } from '$lib/labels';
+import { redirectWithNotice } from '$lib/server/notice';
 import type { Actions, PageServerLoad } from './$types';
 import { titleOrUntitled } from '$lib/posted-job';
 
@@ -21,7 +23,7 @@ const bookSchema = z.object({
 });
 const NOT_FOUND = 'There is no such quote on your jobs.';
 
-export const load: PageServerLoad = async ({ params, url }) => {
+export const load: PageServerLoad = async ({ params }) => {
 	const owner = requireRole('owner');
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, NOT_FOUND);
@@ -74,8 +76,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		holdMinutes: HOLD_MINUTES,
 		messages: messages.map((m) => ({ ...m, mine: m.authorId === owner.id })),
 		bookForm,
-		replyForm,
-		replied: url.searchParams.has('replied')
+		replyForm
 	};
 };
 
@@ -88,7 +89,7 @@ export const actions = {
 		if (!result.ok) return refusalMessage(bookForm, result);
 		redirect(303, `/owner/bookings/${result.bookingId}`);
 	},
-	reply: async ({ request, params }) => {
+	reply: async ({ request, params, cookies }) => {
 		const owner = requireRole('owner');
 		const replyForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!replyForm.valid) return fail(400, { replyForm });
@@ -99,6 +100,10 @@ export const actions = {
 			replyForm.data.body
 		);
 		if (!sent.ok) return refusalMessage(replyForm, sent);
-		redirect(303, `/owner/jobs/${params.id}/quotes/${params.installerId}?replied=1#questions`);
+		redirectWithNotice(
+			cookies,
+			`/owner/jobs/${params.id}/quotes/${params.installerId}#questions`,
+			sent.masked.length > 0 ? `Sent. ${CONTACTS_HIDDEN_NOTE}` : 'Sent.'
+		);
 	}
 } satisfies Actions;
