@@ -26,12 +26,14 @@ describe('computeScope', () => {
 		expect(sheet.rearCable).toEqual({ minMetres: 5, maxMetres: 6.5, extensionMetres: 1 });
 		// Source: common trade practice — two taps of the car's family for parking mode.
 		expect(sheet.parts.find((p) => p.code === 'fuse-tap-low-profile-mini')?.quantity).toBe(2);
-		// Source: the worked example in battery.spec.ts (BCI table; 60 Ah, 12.2 V default cut-off
-		// for flooded, 250 mA default draw) -> 116.96 h.
+		// Source: BCI table and common trade practice, worked by hand: 60 Ah flooded from the
+		// assumed 75 % to the 12.2 V default cut-off (44.444 %) = 18.333 Ah, over the front + rear
+		// default draw 500 mA (from memory, top of 0.30–0.50 A) plus the car's 50 mA -> 33.33 h.
 		expect(sheet.parking?.cutOffVolts).toBe(12.2);
 		expect(sheet.parking?.cutOffDefaulted).toBe(true);
-		expect(sheet.parking?.drawMilliamps).toBe(250);
-		expect(sheet.parking?.budget.hours).toBeCloseTo(116.96, 2);
+		expect(sheet.parking?.drawMilliamps).toBe(500);
+		const budget = sheet.parking?.budget;
+		expect(budget?.estimated && budget.hours).toBeCloseTo(33.33, 2);
 		expect(sheet.cautions[0]?.code).toBe('curtain-airbags');
 		expect(sheet.price.currency).toBe('AUD');
 	});

@@ -22,6 +22,7 @@ import {
 	type SkillNeeds
 } from '$lib/matching';
 import { BODY_STYLES, CAMERA_SETUPS, POWER_MODES } from '$lib/scope/request';
+import { parkingSummary } from '$lib/scope/parking';
 import { canQuote } from '$lib/vetting';
 import { db } from './db';
 import { booking, installerProfile, job, jobNotice, quote, user, type Job } from './db/schema';
@@ -198,9 +199,7 @@ function summarise(row: Pick<Job, 'scope'>): string {
 	if (!scope) return '';
 	const parts = scope.parts.reduce((n, p) => n + p.quantity, 0);
 	const rear = scope.rearCable ? `, rear cable ${String(scope.rearCable.maxMetres)} m` : '';
-	const parking = scope.parking
-		? `, parking ${String(Math.floor(scope.parking.budget.hours))} h`
-		: '';
+	const parking = scope.parking ? `, ${parkingSummary(scope.parking)}` : '';
 	return `${String(scope.labour.minMinutes)}–${String(scope.labour.maxMinutes)} min, ${String(parts)} parts${rear}${parking}`;
 }
 
