@@ -78,7 +78,12 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await expect(owner.getByRole('heading', { name: 'Compare quotes' })).toBeVisible();
 	await expect(owner.getByTestId('quote-row')).toHaveCount(2);
 	await expect(owner.getByTestId('best-fit-formula')).toContainText('45 % price');
-	await expect(owner.getByTestId('quote-table')).toContainText('No reviews yet');
+	await expect(owner.getByTestId('best-fit-formula')).toContainText(
+		'never changes the order of the others'
+	);
+	await expect(owner.getByTestId('quote-rating').first()).toHaveText(
+		'No reviews yet (ranked at the starting 4.00 ★ adjusted)'
+	);
 	await owner.screenshot({ path: testInfo.outputPath('comparison.png'), fullPage: true });
 	// Sorting by total puts the cheaper quote (Ruth's labour was $40 less) first.
 	await owner.getByRole('link', { name: 'Total' }).click();

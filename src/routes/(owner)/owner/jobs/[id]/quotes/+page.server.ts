@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import { z } from 'zod';
-import { BEST_FIT_FORMULA } from '$lib/ranking';
+import { bestFitFormula, priceReferenceCents } from '$lib/ranking';
 import { getLiveBookingForJob, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
@@ -26,6 +26,10 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	if (!job) error(404, 'There is no such job among yours.');
 	const { sort, dir: asked } = sortSchema.parse(Object.fromEntries(url.searchParams));
 	const dir = asked ?? (DESCENDING_FIRST.includes(sort) ? 'desc' : 'asc');
+	const reference = priceReferenceCents({
+		lowCents: job.priceLowCents,
+		highCents: job.priceHighCents
+	});
 	const [quotes, asking, booking] = await Promise.all([
 		listQuotesForOwner(job.id, owner.id),
 		listAskingInstallers(job.id),
@@ -33,11 +37,11 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	]);
 	return {
 		job: { id: job.id, title: job.title ?? 'Your job', status: job.status, timeZone: job.timeZone },
-		rows: compareQuotes(quotes ?? [], sort, dir),
+		rows: compareQuotes(quotes ?? [], sort, dir, reference),
 		asking,
 		booking,
 		sort,
 		dir,
-		formula: BEST_FIT_FORMULA.split('\n')
+		formula: bestFitFormula(reference)
 	};
 };

@@ -3,7 +3,7 @@
  * best-fit scores from $lib/ranking, and the sorts the table offers. No reviews exist yet, so
  * every installer's rating is the ranking's stated prior and the table says "no reviews yet".
  */
-import { rankQuotes, type BestFitScore } from '$lib/ranking';
+import { rankQuotes, ratingSummary, type BestFitScore } from '$lib/ranking';
 import type { listQuotesForOwner } from '$lib/server/quotes';
 
 type OwnerQuote = NonNullable<Awaited<ReturnType<typeof listQuotesForOwner>>>[number];
@@ -36,7 +36,10 @@ export interface ComparisonRow {
 	gstCents: number;
 	distanceKm: number;
 	reviews: number;
+	/** Adjusted (Bayesian) rating in stars. */
 	rating: number;
+	/** E.g. '4.17 ★ adjusted (average 5.00 from 1 review)'. */
+	ratingLabel: string;
 	fitsCompleted: number;
 	earliestSlot: string | null;
 	warrantyMonths: number;
@@ -46,11 +49,15 @@ export interface ComparisonRow {
 	bestRank: number | null;
 }
 
-/** Builds and sorts the comparison; quotes no longer open go last whatever the sort. */
+/**
+ * Builds and sorts the comparison; quotes no longer open go last whatever the sort.
+ * @param referenceCents the middle of the job's price guide (see priceReferenceCents)
+ */
 export function compareQuotes(
 	quotes: readonly OwnerQuote[],
 	sort: ComparisonSort,
 	dir: 'asc' | 'desc',
+	referenceCents: number | null,
 	now = new Date()
 ): ComparisonRow[] {
 	const live = quotes.filter(
@@ -64,7 +71,8 @@ export function compareQuotes(
 			ratingSum: q.ratingSum,
 			ratingCount: q.ratingCount,
 			submittedAt: q.createdAt
-		}))
+		})),
+		referenceCents
 	);
 	const rows = quotes.map((q): ComparisonRow => {
 		const rank = ranked.findIndex((r) => r.id === q.id);
@@ -84,6 +92,7 @@ export function compareQuotes(
 			distanceKm: q.distanceKm ?? 0,
 			reviews: q.ratingCount,
 			rating: ranked[rank]?.fit.rating ?? 0,
+			ratingLabel: ratingSummary(q.ratingSum, q.ratingCount).label,
 			fitsCompleted: q.fitsCompleted,
 			earliestSlot: future.sort()[0] ?? null,
 			warrantyMonths: q.warrantyMonths,
