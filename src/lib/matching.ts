@@ -4,9 +4,14 @@
  */
 import { distanceKm, snapToGrid, withinServiceArea, type LatLng } from './geo';
 import { assertCents, gstFromInclusive, scaleCents } from './money';
-import { isFree, isWithinWorkingHours, type Interval, type WeeklyHours } from './schedule';
+import {
+	formatSlotStart,
+	isFree,
+	isWithinWorkingHours,
+	type Interval,
+	type WeeklyHours
+} from './schedule';
 import type { BodyStyle, CameraSetup, JobRequestInput, PowerMode } from './scope/request';
-import { formatInZone } from './time';
 import { SKILL_LABELS, type InstallerSkill } from './vetting';
 
 /** What the skills check needs to know about a job request. */
@@ -268,7 +273,7 @@ export function quoteProblems(input: QuoteCheckInput): string[] {
 	}
 	const sorted = [...input.slots].sort((a, b) => a.start.getTime() - b.start.getTime());
 	sorted.forEach((slot, i) => {
-		const label = `The time ${formatInZone(slot.start, input.timeZone, 'EEE d MMM, h:mm a')}`;
+		const label = `The time ${formatSlotStart(slot.start, input.timeZone)}`;
 		if (slot.end.getTime() <= slot.start.getTime()) {
 			problems.push(`${label} ends before it starts.`);
 			return;

@@ -17,8 +17,7 @@ import {
 	travelFeeCents
 } from '$lib/matching';
 import { formatAud } from '$lib/money';
-import type { Interval } from '$lib/schedule';
-import { formatInZone } from '$lib/time';
+import { formatSlotLabel, type Interval } from '$lib/schedule';
 import { db, type Tx } from './db';
 import {
 	booking,
@@ -550,9 +549,10 @@ export async function listJobsWithUnsentQuotes(olderThan: Date) {
 	return rows.map((r) => r.jobId);
 }
 
-/** A slot as the installer's local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. */
+/**
+ * A slot as local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM', with the zone abbreviation where a
+ * time could be read two ways (see formatSlotLabel).
+ */
 export function formatSlot(slot: QuoteSlot, timeZone: string): string {
-	const start = new Date(slot.start);
-	const end = new Date(slot.end);
-	return `${formatInZone(start, timeZone, 'EEE d MMM, h:mm a')} – ${formatInZone(end, timeZone, 'h:mm a')}`;
+	return formatSlotLabel(slot, timeZone);
 }

@@ -93,6 +93,7 @@ export const actions = {
 		} catch {
 			return message(form, 'One of the dates is not a real calendar date.', { status: 400 });
 		}
+		if ('problems' in input) return message(form, input.problems.join(' '), { status: 400 });
 		const result = await submitQuote(installer.id, params.id, input);
 		if (!result.ok) {
 			if (result.status === 404) error(404, NOT_FOUND);
