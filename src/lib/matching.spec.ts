@@ -119,7 +119,8 @@ describe('priceQuote', () => {
 			],
 			camera: null,
 			travelCents: 2_100,
-			travelLabel: 'Travel'
+			travelLabel: 'Travel',
+			gstRegistered: true
 		});
 		// 19 800 + 2 x 495 + 4 290 + 2 100 = 27 180 cents (worked by hand).
 		expect(priced.totalCents).toBe(27_180);
@@ -137,12 +138,28 @@ describe('priceQuote', () => {
 			parts: [],
 			camera: { label: 'Camera', cents: 25_000 },
 			travelCents: 0,
-			travelLabel: 'Travel'
+			travelLabel: 'Travel',
+			gstRegistered: true
 		});
 		expect(priced.partsCents).toBe(25_000);
 		expect(priced.lines.some((l) => l.kind === 'travel')).toBe(false);
 		// 35 000 / 11 = 3 181.8 → 3 182 (ATO 1/11 rule, rounded half up).
 		expect(priced.gstCents).toBe(3_182);
+	});
+
+	it('carries no GST when the installer is not registered for GST', () => {
+		// Source: Australian Taxation Office, "Registering for GST" — only registered businesses
+		// charge GST; the total is what the owner pays either way.
+		const priced = priceQuote({
+			labour: { label: 'Labour', cents: 10_000 },
+			parts: [],
+			camera: null,
+			travelCents: 0,
+			travelLabel: 'Travel',
+			gstRegistered: false
+		});
+		expect(priced.totalCents).toBe(10_000);
+		expect(priced.gstCents).toBe(0);
 	});
 
 	it('refuses negative or fractional amounts', () => {
@@ -151,7 +168,8 @@ describe('priceQuote', () => {
 			parts: [],
 			camera: null,
 			travelCents: 0,
-			travelLabel: 'Travel'
+			travelLabel: 'Travel',
+			gstRegistered: true
 		};
 		expect(() => priceQuote(input)).toThrow(RangeError);
 		expect(() => priceQuote({ ...input, labour: { label: 'L', cents: 10.5 } })).toThrow(RangeError);

@@ -3,7 +3,8 @@
  * the job board, the quote form, the server and the tests share one source of truth.
  */
 import { distanceKm, snapToGrid, withinServiceArea, type LatLng } from './geo';
-import { assertCents, gstFromInclusive, scaleCents } from './money';
+import { quoteGstCents } from './gst';
+import { assertCents, scaleCents } from './money';
 import {
 	formatSlotStart,
 	isFree,
@@ -167,6 +168,8 @@ export interface QuotePriceInput {
 	camera: { label: string; cents: number } | null;
 	travelCents: number;
 	travelLabel: string;
+	/** Whether the installer is registered for GST; unregistered quotes carry none. */
+	gstRegistered: boolean;
 }
 
 /** A priced quote: its lines and totals. Camera counts with the parts. */
@@ -181,8 +184,9 @@ export interface QuotePrice {
 
 /**
  * Prices a quote: one labour line, one line per part, an optional camera line and a travel line
- * (omitted at zero), all GST-inclusive; the GST shown is 1/11 of the total, rounded half up to
- * the cent (Australian Taxation Office: GST in a GST-inclusive price at 10 %).
+ * (omitted at zero), all what the owner pays; the GST shown is 1/11 of the total, rounded half up
+ * to the cent (Australian Taxation Office: GST in a GST-inclusive price at 10 %), and none when
+ * the installer is not registered for GST (see $lib/gst).
  * @param input the installer's amounts
  */
 export function priceQuote(input: QuotePriceInput): QuotePrice {
@@ -239,7 +243,7 @@ export function priceQuote(input: QuotePriceInput): QuotePrice {
 		partsCents: sumOf(['part', 'camera']),
 		travelCents: sumOf(['travel']),
 		totalCents,
-		gstCents: gstFromInclusive(totalCents)
+		gstCents: quoteGstCents(totalCents, input.gstRegistered)
 	};
 }
 

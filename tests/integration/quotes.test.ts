@@ -46,6 +46,27 @@ describe('sending a quote', () => {
 		expect(row?.message).toBe(`Happy to do it. Ring ${MASK_PLACEHOLDER} to chat.`);
 	});
 
+	it('carries no GST from an installer not registered for GST, and the owner e-mail says so', async () => {
+		// Source: Australian Taxation Office, "Registering for GST" — only registered businesses
+		// charge GST.
+		const made = await makeOpenJob(ADELAIDE);
+		const installer = await makeInstaller({ base: ADELAIDE, gstRegistered: false });
+		const result = await submitQuote(installer.id, made.job.id, goodQuote(pricedParts(made.job)));
+		expect(result.ok).toBe(true);
+		const [row] = await db.select().from(quote).where(eq(quote.jobId, made.job.id));
+		expect(row?.totalCents).toBeGreaterThan(0);
+		expect(row?.gstCents).toBe(0);
+		expect(row?.gstRegistered).toBe(false);
+		const [revision] = await db
+			.select()
+			.from(quoteRevision)
+			.where(eq(quoteRevision.quoteId, row!.id));
+		expect(revision?.snapshot.gstRegistered).toBe(false);
+		const [mailId] = await sendOwnerQuoteDigest(made.job.id);
+		const [mail] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, mailId!));
+		expect(mail?.text).toContain('No GST: this installer is not registered for GST');
+	});
+
 	it('adds a travel line beyond the free radius at the installer rate', async () => {
 		const { job: j } = await makeOpenJob(ADELAIDE);
 		// 0.2° of latitude south is about 22.2 km (111.19 km per degree on turf's mean-radius sphere).

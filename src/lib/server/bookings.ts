@@ -278,10 +278,13 @@ export async function getOwnerBooking(bookingId: string, ownerId: string) {
 			jobId: job.id,
 			businessName: installerProfile.businessName,
 			suburb: installerProfile.suburb,
-			timeZone: job.timeZone
+			timeZone: job.timeZone,
+			gstRegistered: quote.gstRegistered,
+			gstCents: quote.gstCents
 		})
 		.from(booking)
 		.innerJoin(job, eq(job.id, booking.jobId))
+		.innerJoin(quote, eq(quote.id, booking.quoteId))
 		.innerJoin(installerProfile, eq(installerProfile.userId, booking.installerId))
 		.where(and(eq(booking.id, bookingId), eq(booking.ownerId, ownerId)));
 	return row ?? null;

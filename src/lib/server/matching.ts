@@ -40,6 +40,7 @@ export interface InstallerContext extends InstallerReach {
 	timeZone: string;
 	freeRadiusKm: number;
 	travelFeeCentsPerKm: number;
+	gstRegistered: boolean;
 }
 
 const uuid = z.uuid();
@@ -63,7 +64,8 @@ export async function getInstallerContext(installerId: string): Promise<Installe
 		vettingStatus: p.vettingStatus,
 		timeZone: p.timeZone,
 		freeRadiusKm: p.freeRadiusKm,
-		travelFeeCentsPerKm: p.travelFeeCentsPerKm
+		travelFeeCentsPerKm: p.travelFeeCentsPerKm,
+		gstRegistered: p.gstRegistered
 	};
 }
 

@@ -16,6 +16,7 @@ import {
 	quoteProblems,
 	travelFeeCents
 } from '$lib/matching';
+import { quoteGstNote } from '$lib/gst';
 import { formatAud } from '$lib/money';
 import { formatSlotLabel, type Interval } from '$lib/schedule';
 import { db, type Tx } from './db';
@@ -181,7 +182,8 @@ export async function submitQuote(
 					? { label: 'Camera supplied', cents: input.cameraCents }
 					: null,
 				travelCents: travel,
-				travelLabel: `Travel: ${distance.toFixed(1)} km, ${String(profile.freeRadiusKm)} km free, ${formatAud(profile.travelFeeCentsPerKm)}/km after`
+				travelLabel: `Travel: ${distance.toFixed(1)} km, ${String(profile.freeRadiusKm)} km free, ${formatAud(profile.travelFeeCentsPerKm)}/km after`,
+				gstRegistered: profile.gstRegistered
 			});
 		} catch {
 			return refuse(400, 'Enter every amount as dollars and cents of $0 or more.');
@@ -218,6 +220,7 @@ export async function submitQuote(
 			travelCents: priced.travelCents,
 			totalCents: priced.totalCents,
 			gstCents: priced.gstCents,
+			gstRegistered: profile.gstRegistered,
 			warrantyMonths: input.warrantyMonths,
 			cameraSupplied: input.cameraSupplied,
 			slots,
@@ -502,6 +505,8 @@ export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Pro
 		const fresh = await tx
 			.select({
 				totalCents: quote.totalCents,
+				gstCents: quote.gstCents,
+				gstRegistered: quote.gstRegistered,
 				revision: quote.revision,
 				businessName: installerProfile.businessName
 			})
@@ -518,6 +523,7 @@ export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Pro
 				quotes: fresh.map((q) => ({
 					businessName: q.businessName,
 					total: formatAud(q.totalCents),
+					gst: quoteGstNote(q),
 					revised: q.revision > 1
 				})),
 				url: `${origin()}/owner/jobs/${jobId}/quotes`

@@ -49,6 +49,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			lines: q.lines,
 			totalCents: q.totalCents,
 			gstCents: q.gstCents,
+			gstRegistered: q.gstRegistered,
 			warrantyMonths: q.warrantyMonths,
 			cameraSupplied: q.cameraSupplied,
 			message: q.message,
@@ -75,6 +76,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		form,
 		askForm,
 		timeZone: ctx.timeZone,
+		gstRegistered: ctx.gstRegistered,
 		flash: {
 			quoted: url.searchParams.get('quoted'),
 			masked: url.searchParams.has('masked')

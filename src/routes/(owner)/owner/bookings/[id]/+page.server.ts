@@ -1,4 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { quoteGstNote } from '$lib/gst';
 import { getOwnerBooking, lapseExpiredHolds } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { startHeldFundsPayment } from '$lib/server/payments';
@@ -21,6 +22,7 @@ export const load: PageServerLoad = async ({ params }) => {
 			id: b.id,
 			status: b.status,
 			totalCents: b.totalCents,
+			gstNote: quoteGstNote({ gstRegistered: row.gstRegistered, gstCents: row.gstCents }),
 			slot: formatSlot(
 				{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
 				row.timeZone

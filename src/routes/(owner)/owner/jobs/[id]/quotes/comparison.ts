@@ -3,6 +3,7 @@
  * best-fit scores from $lib/ranking, and the sorts the table offers. No reviews exist yet, so
  * every installer's rating is the ranking's stated prior and the table says "no reviews yet".
  */
+import { quoteGstNote } from '$lib/gst';
 import { rankQuotes, ratingSummary, type BestFitScore } from '$lib/ranking';
 import type { listQuotesForOwner } from '$lib/server/quotes';
 
@@ -34,6 +35,8 @@ export interface ComparisonRow {
 	partsCents: number;
 	travelCents: number;
 	gstCents: number;
+	/** 'incl. $36.36 GST', or that the installer is not registered for GST. */
+	gstNote: string;
 	distanceKm: number;
 	reviews: number;
 	/** Adjusted (Bayesian) rating in stars. */
@@ -89,6 +92,7 @@ export function compareQuotes(
 			partsCents: q.partsCents,
 			travelCents: q.travelCents,
 			gstCents: q.gstCents,
+			gstNote: quoteGstNote(q),
 			distanceKm: q.distanceKm ?? 0,
 			reviews: q.ratingCount,
 			rating: ranked[rank]?.fit.rating ?? 0,

@@ -50,6 +50,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			lines: q.lines,
 			totalCents: q.totalCents,
 			gstCents: q.gstCents,
+			gstRegistered: q.gstRegistered,
 			warrantyMonths: q.warrantyMonths,
 			cameraSupplied: q.cameraSupplied,
 			message: q.message,
