@@ -110,6 +110,15 @@ describe('travelFeeCents', () => {
 });
 
 describe('priceQuote', () => {
+	const labourOnly = {
+		labour: { label: 'Labour', cents: 10_000 },
+		parts: [],
+		camera: null,
+		travelCents: 0,
+		travelLabel: 'Travel',
+		gstRegistered: true
+	};
+
 	it('adds the lines and shows GST as 1/11 of the inclusive total', () => {
 		const priced = priceQuote({
 			labour: { label: 'Labour', cents: 19_800 },
@@ -150,27 +159,15 @@ describe('priceQuote', () => {
 	it('carries no GST when the installer is not registered for GST', () => {
 		// Source: Australian Taxation Office, "Registering for GST" — only registered businesses
 		// charge GST; the total is what the owner pays either way.
-		const priced = priceQuote({
-			labour: { label: 'Labour', cents: 10_000 },
-			parts: [],
-			camera: null,
-			travelCents: 0,
-			travelLabel: 'Travel',
-			gstRegistered: false
-		});
+		const priced = priceQuote({ ...labourOnly, gstRegistered: false });
 		expect(priced.totalCents).toBe(10_000);
 		expect(priced.gstCents).toBe(0);
+		// Registered: 10 000 / 11 = 909.09 -> 909 (ATO 1/11 rule).
+		expect(priceQuote(labourOnly).gstCents).toBe(909);
 	});
 
 	it('refuses negative or fractional amounts', () => {
-		const input = {
-			labour: { label: 'Labour', cents: -1 },
-			parts: [],
-			camera: null,
-			travelCents: 0,
-			travelLabel: 'Travel',
-			gstRegistered: true
-		};
+		const input = { ...labourOnly, labour: { label: 'Labour', cents: -1 } };
 		expect(() => priceQuote(input)).toThrow(RangeError);
 		expect(() => priceQuote({ ...input, labour: { label: 'L', cents: 10.5 } })).toThrow(RangeError);
 	});

@@ -49,6 +49,9 @@ describe('cautionsFor', () => {
 		expect(codes({ batteryType: 'agm' })).toContain('start-stop-battery');
 		expect(codes({ batteryType: 'efb' })).toContain('start-stop-battery');
 		expect(codes({ batteryType: 'unknown' })).not.toContain('start-stop-battery');
+		// Source: common trade practice — lead-acid tables and cut-offs do not apply to lithium.
+		expect(codes({ batteryType: 'lithium' })).toContain('lithium-12v');
+		expect(codes({ batteryType: 'flooded' })).not.toContain('lithium-12v');
 	});
 
 	it('raises fuse-tap cautions only for hard-wired power', () => {

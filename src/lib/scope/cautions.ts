@@ -10,6 +10,7 @@ export type CautionCode =
 	| 'curtain-airbags'
 	| 'hybrid-ev-12v'
 	| 'start-stop-battery'
+	| 'lithium-12v'
 	| 'windscreen-position'
 	| 'fuse-tap-orientation'
 	| 'safety-circuits'
@@ -103,6 +104,17 @@ export function cautionsFor(input: CautionInput): Caution[] {
 			'These batteries already work at partial charge, so set a higher cut-off voltage. Cars ' +
 				'with a current sensor on the negative battery terminal must not have accessories ' +
 				'grounded to the negative post, or the charging system loses track of the battery.'
+		);
+	}
+	if (input.batteryType === 'lithium') {
+		add(
+			'lithium-12v',
+			'warning',
+			'12 V lithium battery',
+			'Lead-acid voltage tables and cut-off settings do not apply: a lithium battery holds ' +
+				'nearly the same voltage until it is almost empty, so a lead-acid cut-off can let parking ' +
+				"mode run it down to its own protection. Use a cut-off made for lithium (ask the kit's " +
+				'maker or the vehicle maker) or a separate battery pack; the sheet gives no parking estimate.'
 		);
 	}
 	add(

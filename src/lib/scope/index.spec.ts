@@ -1,20 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { ADELAIDE_MARKET, computeScope, jobRequestSchema, type JobRequestInput } from './index';
+import { DEMO_WAGON_JOB } from './demo-job';
+import { ADELAIDE_MARKET, computeScope } from './index';
 
-// Invented demo job; no real make or model.
-const JOB: JobRequestInput = jobRequestSchema.parse({
-	make: 'Demo Motors',
-	model: 'Estate',
-	year: '2020',
-	bodyStyle: 'wagon',
-	fuseFamily: 'low-profile-mini',
-	batteryType: 'flooded',
-	batteryAh: 60,
-	curtainAirbags: 'yes',
-	cameras: 'front-rear',
-	cameraSupply: 'owner',
-	power: 'hardwired-parking'
-});
+const JOB = DEMO_WAGON_JOB;
 
 describe('computeScope', () => {
 	it('assembles labour, parts, parking budget, price and cautions', () => {

@@ -1,21 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { jobRequestSchema, type JobRequestInput } from './request';
+import { DEMO_WAGON_JOB } from './demo-job';
+import type { JobRequestInput } from './request';
 import { parkingScope } from './parking';
 
-// Invented demo job; no real make or model.
-const JOB: JobRequestInput = jobRequestSchema.parse({
-	make: 'Demo Motors',
-	model: 'Estate',
-	year: '2020',
-	bodyStyle: 'wagon',
-	fuseFamily: 'mini',
-	batteryType: 'flooded',
-	batteryAh: 60,
-	curtainAirbags: 'yes',
-	cameras: 'front-rear',
-	cameraSupply: 'owner',
-	power: 'hardwired-parking'
-});
+const JOB = DEMO_WAGON_JOB;
 
 const texts = (job: JobRequestInput) =>
 	Object.fromEntries((parkingScope(job)?.assumptions ?? []).map((a) => [a.code, a.text]));
