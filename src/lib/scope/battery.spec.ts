@@ -326,6 +326,10 @@ describe('parkingBudget', () => {
 			expect.arrayContaining(['hybrid-ev', 'capacity-assumed', 'battery-type-assumed'])
 		);
 		expect(budget.hours).toBeCloseTo(9.67, 2);
+		const says = (b: ParkingBudget) => b.warnings.find((w) => w.code === 'hybrid-ev')?.message;
+		expect(says(budget)).toContain(
+			'The estimate assumes a 35 Ah AGM battery and a cut-off of at least 12.3 V.'
+		);
 		const low = estimate({
 			capacityAh: 45,
 			batteryType: 'flooded',
@@ -334,6 +338,16 @@ describe('parkingBudget', () => {
 			cameraDrawAmps: 0.3
 		});
 		expect(codes(low)).toContain('cut-off-too-low');
+		// Known size and type: only the cut-off is assumed.
+		expect(says(low)).toContain('The estimate assumes a cut-off of at least 12.3 V.');
+		const agmOnly = estimate({
+			batteryType: 'unknown',
+			capacityAh: 40,
+			hybridOrEv: true,
+			cutOffVolts: 12.4,
+			cameraDrawAmps: 0.3
+		});
+		expect(says(agmOnly)).toContain('assumes an AGM battery and a cut-off');
 	});
 
 	it('does not estimate a 12 V lithium battery, and says why', () => {

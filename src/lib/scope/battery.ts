@@ -274,13 +274,19 @@ export function parkingBudget(input: ParkingBudgetInput): ParkingEstimate {
 	let capacityAh = input.capacityAh;
 	const capacityAssumed = capacityAh === undefined;
 	if (hybridOrEv) {
+		const battery = [
+			capacityAh === undefined ? `${String(HYBRID_EV_CAPACITY_AH)} Ah` : '',
+			type === 'unknown' ? 'AGM' : ''
+		]
+			.filter(Boolean)
+			.join(' ');
+		const article = battery.startsWith('AGM') ? 'an' : 'a';
 		warnings.push({
 			code: 'hybrid-ev',
 			message:
 				'Hybrid or EV: the 12 V battery is often small and AGM, and only charged while the car is ' +
 				'switched on; if it runs flat the car may not switch on. The estimate assumes ' +
-				`${capacityAh === undefined ? `a ${HYBRID_EV_CAPACITY_AH} Ah battery, ` : ''}` +
-				`${type === 'unknown' ? 'an AGM battery, ' : ''}and a cut-off of at least ` +
+				`${battery ? `${article} ${battery} battery and ` : ''}a cut-off of at least ` +
 				`${MIN_SAFE_CUT_OFF_VOLTS_STRICT.toFixed(1)} V.`
 		});
 	}

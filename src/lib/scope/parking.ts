@@ -101,7 +101,7 @@ function assumptionsFor(
 	list.push({
 		code: 'cut-off',
 		text: scope.cutOffDefaulted
-			? `Cut-off: ${scope.cutOffVolts.toFixed(1)} V, the usual setting for this battery (common trade practice), ${Math.round(budget.cutOffStateOfCharge)} % charge at rest.`
+			? `Cut-off: ${scope.cutOffVolts.toFixed(1)} V, the usual setting for this battery and car (common trade practice), ${Math.round(budget.cutOffStateOfCharge)} % charge at rest.`
 			: `Cut-off: ${scope.cutOffVolts.toFixed(1)} V as you chose, ${Math.round(budget.cutOffStateOfCharge)} % charge at rest.`
 	});
 	list.push({ code: 'loaded-voltage', text: LOADED_VOLTAGE_NOTE });
