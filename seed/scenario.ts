@@ -174,6 +174,9 @@ const SKILL_SETS: readonly InstallerSkill[][] = [
 	['parking-mode', 'vans-utes']
 ];
 
+/** Demo installers (by index) not registered for GST: Headliner Hands and Clean Run Installs. */
+export const NOT_GST_REGISTERED: readonly number[] = [3, 7];
+
 const INSURERS = ['Gumleaf Mutual', 'Saltbush Underwriting', 'Red Gum Trade Cover'] as const;
 
 /**
@@ -204,6 +207,8 @@ export function demoInstallerDetails(index: number, today: Date) {
 		contactName: installer.displayName,
 		phone: `04${String(10_000_000 + index * 1_234_567).slice(0, 8)}`,
 		abn: demoAbn(index + 1),
+		// Two sole traders under the GST turnover threshold, not registered: their quotes show no GST.
+		gstRegistered: !NOT_GST_REGISTERED.includes(index),
 		yearsInTrade: 2 + ((index * 5) % 19),
 		skills: SKILL_SETS[index] ?? ['parking-mode'],
 		workshopAddress: installer.workshop ? `${10 + index * 3} Demo Lane, ${installer.suburb}` : null,

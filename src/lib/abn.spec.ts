@@ -2,6 +2,9 @@ import { describe, expect, it } from 'vitest';
 import {
 	ABN_CHECK_MESSAGE,
 	ABN_FORMAT_MESSAGE,
+	ABN_LEADING_ZERO_MESSAGE,
+	ABN_ZERO_BODY_MESSAGE,
+	abnProblem,
 	abnSchema,
 	formatAbn,
 	isValidAbn,
@@ -54,6 +57,57 @@ describe('isValidAbn', () => {
 		expect(isValidAbn('')).toBe(false);
 		expect(isValidAbn('51 824 753 55O')).toBe(false);
 		expect(isValidAbn('51-824-753-556')).toBe(false);
+	});
+});
+
+describe('published valid and invalid examples', () => {
+	// Only the numbers, as the check's worked examples; no entity is named or looked up.
+	it.each([
+		// Source: the 'ABN' package's README on PyPI (0.2), the example of a valid ABN.
+		['51 824 753 556'],
+		// Source: the 'ABN' package's README on PyPI (0.3.5): valid, and the ABN of ACN 004 085 616.
+		['53 004 085 616'],
+		// Source: python-stdnum's au.abn module and its TypeScript port 'stdnum' (au/abn.spec.ts).
+		['83 914 571 673'],
+		// Source: Oracle Fusion Cloud Financials, tax registration validation for Australia
+		// ("Good" examples under the modulus 89 check).
+		['11 223 491 505'],
+		['20 561 300 000'],
+		['31 010 111 200'],
+		['90 000 100 000'],
+		['60 231 941 111'],
+		['65 118 220 001']
+	])('%s passes', (abn) => {
+		expect(isValidAbn(abn)).toBe(true);
+		expect(abnProblem(abn)).toBeNull();
+	});
+
+	it('refuses the published invalid examples', () => {
+		// Source: Oracle Fusion Cloud Financials, the "Bad" example (remainder not zero).
+		expect(abnProblem('11223493504')).toBe(ABN_CHECK_MESSAGE);
+		// Source: the 'ABN' package's README on PyPI and python-stdnum: 99 999 999 999 is invalid.
+		expect(isValidAbn('99 999 999 999')).toBe(false);
+	});
+});
+
+describe('numbers that pass the arithmetic but are no ABN', () => {
+	it('refuses a leading 0', () => {
+		// Source: ABR "ABN format" — the two leading digits are check digits (10 to 99). Worked by
+		// hand: 01 300 000 000 -> (0 − 1) x 10 + 1 x 1 + 3 x 3 = 0, divisible by 89, so the
+		// arithmetic alone would pass it.
+		expect(abnProblem('01 300 000 000')).toBe(ABN_LEADING_ZERO_MESSAGE);
+		expect(isValidAbn('01300000000')).toBe(false);
+	});
+
+	it('refuses nine zeros after the check digits', () => {
+		// Source: from memory — the nine digits identify the entity and are never all zero.
+		// Worked by hand: 10 000 000 000 -> (1 − 1) x 10 = 0, divisible by 89.
+		expect(abnProblem('10 000 000 000')).toBe(ABN_ZERO_BODY_MESSAGE);
+		expect(abnSchema.safeParse('10 000 000 000').error?.issues.map((i) => i.message)).toEqual([
+			ABN_ZERO_BODY_MESSAGE
+		]);
+		// One non-zero identifying digit is a real body again: 90 000 100 000 (Oracle's example).
+		expect(isValidAbn('90 000 100 000')).toBe(true);
 	});
 });
 

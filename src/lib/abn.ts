@@ -16,6 +16,13 @@ export const ABN_CHECK_MESSAGE = 'That ABN does not pass the ABN check: please c
 /** Shown when the input is not 11 digits at all. */
 export const ABN_FORMAT_MESSAGE = 'An ABN is 11 digits, for example 51 824 753 556';
 
+/** Shown for an ABN that starts with 0: real ABNs never do (their check digits are 10 to 99). */
+export const ABN_LEADING_ZERO_MESSAGE = 'An ABN never starts with 0: please check the first digit';
+
+/** Shown for an ABN whose nine identifying digits are all zeros: no entity has that number. */
+export const ABN_ZERO_BODY_MESSAGE =
+	'The last nine digits of an ABN are never all zeros: please check the number';
+
 /**
  * Removes the spaces people type or paste into an ABN ('51 824 753 556' -> '51824753556').
  * Other characters are kept so that validation can refuse them.
@@ -28,12 +35,30 @@ export function normaliseAbn(input: string): string {
 /**
  * Whether an ABN passes the Australian Business Register check: subtract 1 from the first
  * digit, multiply each digit by its weight (10, 1, 3, 5, … 19), add them up; the ABN is valid
- * when the sum divides by 89.
+ * when the sum divides by 89. Numbers starting with 0 or with nine zeros after the check digits
+ * are refused too (see {@link abnProblem}).
  * @param input the ABN, spaces allowed
  */
 export function isValidAbn(input: string): boolean {
+	return abnProblem(input) === null;
+}
+
+/**
+ * Why an ABN is not valid, in words for the person typing it, or null when it is. Beyond the
+ * register's check: the two leading check digits run from 10 to 99, so an ABN never starts with
+ * 0, and the nine identifying digits after them are never all zeros (10 000 000 000 passes the
+ * arithmetic all the same).
+ * @param input the ABN, spaces allowed
+ */
+export function abnProblem(input: string): string | null {
 	const abn = normaliseAbn(input);
-	if (!/^\d{11}$/.test(abn)) return false;
+	if (!/^\d{11}$/.test(abn)) return ABN_FORMAT_MESSAGE;
+	if (abn.startsWith('0')) return ABN_LEADING_ZERO_MESSAGE;
+	if (/^\d{2}0{9}$/.test(abn)) return ABN_ZERO_BODY_MESSAGE;
+	return passesCheck(abn) ? null : ABN_CHECK_MESSAGE;
+}
+
+function passesCheck(abn: string): boolean {
 	const digits = [...abn].map(Number);
 	digits[0] = (digits[0] ?? 0) - 1;
 	const sum = digits.reduce((total, digit, index) => total + digit * (ABN_WEIGHTS[index] ?? 0), 0);
@@ -59,5 +84,8 @@ export const abnSchema = textField()
 			.string()
 			// abort: a wrong length or a letter is the one message worth showing.
 			.regex(/^\d{11}$/, { message: ABN_FORMAT_MESSAGE, abort: true })
-			.refine(isValidAbn, ABN_CHECK_MESSAGE)
+			.superRefine((abn, ctx) => {
+				const problem = abnProblem(abn);
+				if (problem) ctx.addIssue({ code: 'custom', message: problem });
+			})
 	);

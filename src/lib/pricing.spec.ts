@@ -13,6 +13,15 @@ describe('travelFeeCents', () => {
 });
 
 describe('priceQuote', () => {
+	const labourOnly = {
+		labour: { label: 'Labour', cents: 10_000 },
+		parts: [],
+		camera: null,
+		travelCents: 0,
+		travelLabel: 'Travel',
+		gstRegistered: true
+	};
+
 	it('adds the lines and shows GST as 1/11 of the inclusive total', () => {
 		const priced = priceQuote({
 			labour: { label: 'Labour', cents: 19_800 },
@@ -22,7 +31,8 @@ describe('priceQuote', () => {
 			],
 			camera: null,
 			travelCents: 2_100,
-			travelLabel: 'Travel'
+			travelLabel: 'Travel',
+			gstRegistered: true
 		});
 		// 19 800 + 2 x 495 + 4 290 + 2 100 = 27 180 cents (worked by hand).
 		expect(priced.totalCents).toBe(27_180);
@@ -40,7 +50,8 @@ describe('priceQuote', () => {
 			parts: [],
 			camera: { label: 'Camera', cents: 25_000 },
 			travelCents: 0,
-			travelLabel: 'Travel'
+			travelLabel: 'Travel',
+			gstRegistered: true
 		});
 		expect(priced.partsCents).toBe(25_000);
 		expect(priced.lines.some((l) => l.kind === 'travel')).toBe(false);
@@ -48,14 +59,18 @@ describe('priceQuote', () => {
 		expect(priced.gstCents).toBe(3_182);
 	});
 
+	it('carries no GST when the installer is not registered for GST', () => {
+		// Source: Australian Taxation Office, "Registering for GST" — only registered businesses
+		// charge GST; the total is what the owner pays either way.
+		const priced = priceQuote({ ...labourOnly, gstRegistered: false });
+		expect(priced.totalCents).toBe(10_000);
+		expect(priced.gstCents).toBe(0);
+		// Registered: 10 000 / 11 = 909.09 -> 909 (ATO 1/11 rule).
+		expect(priceQuote(labourOnly).gstCents).toBe(909);
+	});
+
 	it('refuses negative or fractional amounts', () => {
-		const input = {
-			labour: { label: 'Labour', cents: -1 },
-			parts: [],
-			camera: null,
-			travelCents: 0,
-			travelLabel: 'Travel'
-		};
+		const input = { ...labourOnly, labour: { label: 'Labour', cents: -1 } };
 		expect(() => priceQuote(input)).toThrow(RangeError);
 		expect(() => priceQuote({ ...input, labour: { label: 'L', cents: 10.5 } })).toThrow(RangeError);
 	});

@@ -1,7 +1,13 @@
 /** How a quote is priced and checked: GST-inclusive integer cents, slots against the diary. Pure. */
-import { assertCents, gstFromInclusive, scaleCents } from './money';
-import { isFree, isWithinWorkingHours, type Interval, type WeeklyHours } from './schedule';
-import { formatInZone } from './time';
+import { quoteGstCents } from './gst';
+import { assertCents, scaleCents } from './money';
+import {
+	formatSlotStart,
+	isFree,
+	isWithinWorkingHours,
+	type Interval,
+	type WeeklyHours
+} from './schedule';
 
 /**
  * Travel fee for a mobile fit: the installer's rate per km for each whole or part km beyond the
@@ -49,6 +55,8 @@ export interface QuotePriceInput {
 	camera: { label: string; cents: number } | null;
 	travelCents: number;
 	travelLabel: string;
+	/** Whether the installer is registered for GST; unregistered quotes carry none. */
+	gstRegistered: boolean;
 }
 
 /** A priced quote: its lines and totals. Camera counts with the parts. */
@@ -63,8 +71,9 @@ export interface QuotePrice {
 
 /**
  * Prices a quote: one labour line, one line per part, an optional camera line and a travel line
- * (omitted at zero), all GST-inclusive; the GST shown is 1/11 of the total, rounded half up to
- * the cent (Australian Taxation Office: GST in a GST-inclusive price at 10 %).
+ * (omitted at zero), all what the owner pays; the GST shown is 1/11 of the total, rounded half up
+ * to the cent (Australian Taxation Office: GST in a GST-inclusive price at 10 %), and none when
+ * the installer is not registered for GST (see $lib/gst).
  * @param input the installer's amounts
  */
 export function priceQuote(input: QuotePriceInput): QuotePrice {
@@ -121,7 +130,7 @@ export function priceQuote(input: QuotePriceInput): QuotePrice {
 		partsCents: sumOf(['part', 'camera']),
 		travelCents: sumOf(['travel']),
 		totalCents,
-		gstCents: gstFromInclusive(totalCents)
+		gstCents: quoteGstCents(totalCents, input.gstRegistered)
 	};
 }
 
@@ -155,7 +164,7 @@ export function quoteProblems(input: QuoteCheckInput): string[] {
 	}
 	const sorted = [...input.slots].sort((a, b) => a.start.getTime() - b.start.getTime());
 	sorted.forEach((slot, i) => {
-		const label = `The time ${formatInZone(slot.start, input.timeZone, 'EEE d MMM, h:mm a')}`;
+		const label = `The time ${formatSlotStart(slot.start, input.timeZone)}`;
 		if (slot.end.getTime() <= slot.start.getTime()) {
 			problems.push(`${label} ends before it starts.`);
 			return;

@@ -1,6 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import {
 	candidateSlots,
+	formatSlotLabel,
+	formatSlotStart,
+	repeatedTimeChoiceOf,
+	repeatedTimeOptions,
+	resolveSlotStart,
 	isFree,
 	isWithinWorkingHours,
 	overlaps,
@@ -276,5 +281,75 @@ describe('validateWeeklyHours', () => {
 			"Saturday: '9am' and '24:00' should be a 24-hour time like 09:00.",
 			'Wednesday: 09:00–12:00 overlaps 11:00–14:00.'
 		]);
+	});
+});
+
+describe('resolveSlotStart', () => {
+	const ZONE_AT = 'Australia/Adelaide';
+
+	it('refuses a start time the clocks skipped, saying what they did', () => {
+		// Source: IANA tz rule AS — 2026-10-04 02:00 ACST jumps to 03:00 ACDT.
+		const result = resolveSlotStart('2026-10-04', '02:30', ZONE_AT);
+		expect(result.ok).toBe(false);
+		expect(!result.ok && result.problem).toBe(
+			'On Sun 4 Oct 2026 the clocks in Australia/Adelaide went forward an hour at 2:00 am (ACST) ' +
+				'to 3:00 am (ACDT), so 2:30 am did not happen that day. Choose another time.'
+		);
+	});
+
+	it('asks which one for a repeated time, and takes the one chosen', () => {
+		// Source: IANA tz rule AS — 2026-04-05 02:30 happens at 16:00Z (ACDT) and 17:00Z (ACST).
+		const unchosen = resolveSlotStart('2026-04-05', '02:30', ZONE_AT);
+		expect(!unchosen.ok && unchosen.problem).toContain('happened twice');
+		expect(!unchosen.ok && unchosen.problem).toContain('Say which one you mean.');
+		expect(resolveSlotStart('2026-04-05', '02:30', ZONE_AT, 'earlier')).toEqual({
+			ok: true,
+			start: new Date('2026-04-04T16:00:00Z')
+		});
+		expect(resolveSlotStart('2026-04-05', '02:30', ZONE_AT, 'later')).toEqual({
+			ok: true,
+			start: new Date('2026-04-04T17:00:00Z')
+		});
+		// An ordinary time ignores the choice.
+		expect(resolveSlotStart('2026-04-05', '09:00', ZONE_AT, 'later')).toEqual({
+			ok: true,
+			start: new Date('2026-04-04T23:30:00Z')
+		});
+	});
+
+	it('offers both readings of a repeated time and finds which one a saved slot is', () => {
+		// Source: IANA tz rule AS and 'australasia' abbreviations ACDT/ACST.
+		expect(repeatedTimeOptions('2026-04-05', '02:30', ZONE_AT)).toEqual([
+			{ value: 'earlier', label: '2:30 AM ACDT (first)' },
+			{ value: 'later', label: '2:30 AM ACST (second)' }
+		]);
+		expect(repeatedTimeOptions('2026-04-05', '09:00', ZONE_AT)).toEqual([]);
+		expect(repeatedTimeOptions('2026-02-31', '09:00', ZONE_AT)).toEqual([]);
+		expect(repeatedTimeChoiceOf(new Date('2026-04-04T16:00:00Z'), ZONE_AT)).toBe('earlier');
+		expect(repeatedTimeChoiceOf(new Date('2026-04-04T17:00:00Z'), ZONE_AT)).toBe('later');
+		expect(repeatedTimeChoiceOf(new Date('2026-04-04T23:30:00Z'), ZONE_AT)).toBe('');
+	});
+});
+
+describe('formatSlotLabel and formatSlotStart', () => {
+	const ZONE_AT = 'Australia/Adelaide';
+
+	it('adds the zone abbreviation only where two times could read alike', () => {
+		// Source: IANA tz rule AS, 2026 changes; abbreviations ACST/ACDT.
+		expect(
+			formatSlotLabel({ start: '2026-04-04T23:30:00Z', end: '2026-04-05T01:30:00Z' }, ZONE_AT)
+		).toBe('Sun 5 Apr, 9:00 AM – 11:00 AM');
+		// Starts in the repeated hour and ends after the change: both times tagged.
+		expect(
+			formatSlotLabel({ start: '2026-04-04T16:00:00Z', end: '2026-04-04T19:00:00Z' }, ZONE_AT)
+		).toBe('Sun 5 Apr, 2:30 AM ACDT – 4:30 AM ACST');
+		// The second 2:30 am reads differently from the first.
+		expect(formatSlotStart(new Date('2026-04-04T17:00:00Z'), ZONE_AT)).toBe(
+			'Sun 5 Apr, 2:30 AM ACST'
+		);
+		// Across the October jump: 12:30 am ACST to 3:30 am ACDT is two hours, not three.
+		expect(
+			formatSlotLabel({ start: '2026-10-03T15:00:00Z', end: '2026-10-03T17:00:00Z' }, ZONE_AT)
+		).toBe('Sun 4 Oct, 12:30 AM ACST – 3:30 AM ACDT');
 	});
 });

@@ -4,7 +4,15 @@
  * localToUtc, so daylight-saving days come out right: on the spring-forward day a 9-hour block
  * holds 8 real hours of slots, on the fall-back day 10.
  */
-import { formatInZone, localToUtc } from './time';
+import {
+	describeClockChange,
+	formatInZone,
+	isRepeatedWallTime,
+	localToUtc,
+	resolveLocalTime,
+	utcOffsetMinutes,
+	zoneAbbreviation
+} from './time';
 
 /** 0 = Sunday … 6 = Saturday, as JavaScript's Date counts them. */
 export type Weekday = 0 | 1 | 2 | 3 | 4 | 5 | 6;
@@ -215,9 +223,107 @@ function assertInterval(slot: Interval): void {
 		throw new RangeError('A slot must end after it starts');
 	}
 }
-/** A slot as the installer's local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. */
-export function formatSlot(slot: { start: string; end: string }, timeZone: string): string {
+
+/** Which pass of a repeated wall-clock time a person chose; '' when they did not say. */
+export type RepeatedTimeChoice = '' | 'earlier' | 'later';
+
+/**
+ * The instant a person meant by a slot's local date and start time, or why it cannot be read:
+ * a time the clocks skipped is refused with what the clocks did, and a time they repeated needs
+ * the person to say which pass (never guessed, never silently moved).
+ * @param date 'YYYY-MM-DD' in the zone
+ * @param time 'HH:mm' in the zone
+ * @param zone IANA zone name
+ * @param choice for a repeated time, which pass
+ */
+export function resolveSlotStart(
+	date: string,
+	time: string,
+	zone: string,
+	choice: RepeatedTimeChoice = ''
+): { ok: true; start: Date } | { ok: false; problem: string } {
+	const resolved = resolveLocalTime(date, time, zone);
+	if (resolved.kind === 'exact') return { ok: true, start: resolved.instant };
+	const what = describeClockChange(date, time, zone) ?? '';
+	if (resolved.kind === 'skipped') {
+		return { ok: false, problem: `${what} Choose another time.` };
+	}
+	if (choice === '') {
+		return { ok: false, problem: `${what} Say which one you mean.` };
+	}
+	return { ok: true, start: choice === 'earlier' ? resolved.earlier : resolved.later };
+}
+
+/**
+ * The two readings of a repeated wall-clock time, for a chooser, e.g.
+ * [{ value: 'earlier', label: '2:30 am ACDT (first)' }, { value: 'later', label: '2:30 am ACST (second)' }];
+ * empty for an ordinary or skipped time.
+ * @param date 'YYYY-MM-DD'
+ * @param time 'HH:mm'
+ * @param zone IANA zone name
+ */
+export function repeatedTimeOptions(
+	date: string,
+	time: string,
+	zone: string
+): Array<{ value: Exclude<RepeatedTimeChoice, ''>; label: string }> {
+	let resolved;
+	try {
+		resolved = resolveLocalTime(date, time, zone);
+	} catch {
+		return [];
+	}
+	if (resolved.kind !== 'repeated') return [];
+	const label = (d: Date, which: string) =>
+		`${formatInZone(d, zone, 'h:mm a')} ${zoneAbbreviation(d, zone)} (${which})`;
+	return [
+		{ value: 'earlier', label: label(resolved.earlier, 'first') },
+		{ value: 'later', label: label(resolved.later, 'second') }
+	];
+}
+
+/**
+ * A slot as local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. Where a time could be read two
+ * ways (it falls in the hour the clocks repeat) or the slot runs across a clock change, each
+ * time carries the zone abbreviation: 'Sun 5 Apr, 2:30 AM ACDT – 4:30 AM ACST'.
+ * @param slot start and end instants (Date or ISO string)
+ * @param zone IANA zone name
+ */
+export function formatSlotLabel(
+	slot: { start: Date | string; end: Date | string },
+	zone: string
+): string {
 	const start = new Date(slot.start);
 	const end = new Date(slot.end);
-	return `${formatInZone(start, timeZone, 'EEE d MMM, h:mm a')} – ${formatInZone(end, timeZone, 'h:mm a')}`;
+	const spansChange = utcOffsetMinutes(start, zone) !== utcOffsetMinutes(end, zone);
+	const tag = (d: Date) =>
+		spansChange || isRepeatedWallTime(d, zone) ? ` ${zoneAbbreviation(d, zone)}` : '';
+	return `${formatInZone(start, zone, 'EEE d MMM, h:mm a')}${tag(start)} – ${formatInZone(end, zone, 'h:mm a')}${tag(end)}`;
+}
+
+/**
+ * A slot's start for messages, e.g. 'Sun 5 Apr, 2:30 AM ACDT' (abbreviation only where the time
+ * could be read two ways).
+ * @param start the instant
+ * @param zone IANA zone name
+ */
+export function formatSlotStart(start: Date, zone: string): string {
+	const tag = isRepeatedWallTime(start, zone) ? ` ${zoneAbbreviation(start, zone)}` : '';
+	return `${formatInZone(start, zone, 'EEE d MMM, h:mm a')}${tag}`;
+}
+
+/**
+ * Which pass of a repeated wall-clock time an instant is ('' when its time happens once), so a
+ * form refilled from a saved slot keeps the same one.
+ * @param instant the slot's start
+ * @param zone IANA zone name
+ */
+export function repeatedTimeChoiceOf(instant: Date, zone: string): RepeatedTimeChoice {
+	const resolved = resolveLocalTime(
+		formatInZone(instant, zone, 'yyyy-MM-dd'),
+		formatInZone(instant, zone, 'HH:mm'),
+		zone
+	);
+	if (resolved.kind !== 'repeated') return '';
+	return resolved.earlier.getTime() === instant.getTime() ? 'earlier' : 'later';
 }

@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { DEFAULT_TIME_ZONE, formatInZone, localToUtc, utcOffsetMinutes } from './time';
+import {
+	DEFAULT_TIME_ZONE,
+	describeClockChange,
+	formatInZone,
+	isRepeatedWallTime,
+	localToUtc,
+	resolveLocalTime,
+	utcOffsetMinutes,
+	zoneAbbreviation
+} from './time';
 
 // Facts below come from the IANA tz database, 'australasia' file, zone Australia/Adelaide with
 // rule 'AS': standard time UTC+9:30, daylight time UTC+10:30 from the first Sunday of October
@@ -97,6 +106,76 @@ describe('formatInZone', () => {
 		// Source: IANA tz, UTC itself has offset 0.
 		expect(formatInZone(new Date('2026-01-01T00:00:00Z'), 'UTC', 'yyyy-MM-dd HH:mm')).toBe(
 			'2026-01-01 00:00'
+		);
+	});
+});
+
+describe('resolveLocalTime', () => {
+	it('finds one, two or no instants for a wall-clock time', () => {
+		// Source: IANA tz rule AS — 2026-04-05 02:30 happens at +10:30 (16:00Z on the 4th) and
+		// again at +9:30 (17:00Z); 2026-10-04 02:30 is skipped (02:00 jumps to 03:00, 16:30Z).
+		expect(resolveLocalTime('2026-06-10', '09:00', ZONE)).toEqual({
+			kind: 'exact',
+			instant: new Date('2026-06-09T23:30:00Z')
+		});
+		expect(resolveLocalTime('2026-04-05', '02:30', ZONE)).toEqual({
+			kind: 'repeated',
+			earlier: new Date('2026-04-04T16:00:00Z'),
+			later: new Date('2026-04-04T17:00:00Z')
+		});
+		expect(resolveLocalTime('2026-10-04', '02:30', ZONE)).toEqual({
+			kind: 'skipped',
+			change: new Date('2026-10-03T16:30:00Z'),
+			offsetBefore: 570,
+			offsetAfter: 630
+		});
+		// The edges: 02:00 on the October day is skipped, 03:00 is real; 03:00 in April is once.
+		expect(resolveLocalTime('2026-10-04', '02:00', ZONE).kind).toBe('skipped');
+		expect(resolveLocalTime('2026-10-04', '03:00', ZONE).kind).toBe('exact');
+		expect(resolveLocalTime('2026-04-05', '03:00', ZONE).kind).toBe('exact');
+		expect(resolveLocalTime('2026-04-05', '01:59', ZONE).kind).toBe('exact');
+	});
+});
+
+describe('zoneAbbreviation and isRepeatedWallTime', () => {
+	it('names Adelaide standard and daylight time', () => {
+		// Source: IANA tz 'australasia' — Australia/Adelaide abbreviations AC%sT (ACST/ACDT).
+		expect(zoneAbbreviation(new Date('2026-07-01T00:00:00Z'), ZONE)).toBe('ACST');
+		expect(zoneAbbreviation(new Date('2026-01-15T00:00:00Z'), ZONE)).toBe('ACDT');
+		// Both passes of 2:30 am on 5 April 2026 read alike without it.
+		expect(zoneAbbreviation(new Date('2026-04-04T16:00:00Z'), ZONE)).toBe('ACDT');
+		expect(zoneAbbreviation(new Date('2026-04-04T17:00:00Z'), ZONE)).toBe('ACST');
+	});
+
+	it('says which instants fall in the repeated hour', () => {
+		// Source: IANA tz rule AS — the repeated hour on 5 April 2026 is 02:00–02:59 local.
+		expect(isRepeatedWallTime(new Date('2026-04-04T16:00:00Z'), ZONE)).toBe(true);
+		expect(isRepeatedWallTime(new Date('2026-04-04T17:00:00Z'), ZONE)).toBe(true);
+		expect(isRepeatedWallTime(new Date('2026-04-04T17:30:00Z'), ZONE)).toBe(false);
+		expect(isRepeatedWallTime(new Date('2026-06-09T23:30:00Z'), ZONE)).toBe(false);
+	});
+});
+
+describe('describeClockChange', () => {
+	it('says what the clock did, in words', () => {
+		// Source: IANA tz rule AS, 2026 changes.
+		expect(describeClockChange('2026-10-04', '02:30', ZONE)).toBe(
+			'On Sun 4 Oct 2026 the clocks in Australia/Adelaide went forward an hour at 2:00 am (ACST) ' +
+				'to 3:00 am (ACDT), so 2:30 am did not happen that day.'
+		);
+		expect(describeClockChange('2026-04-05', '02:30', ZONE)).toBe(
+			'On Sun 5 Apr 2026 the clocks in Australia/Adelaide went back an hour at 3:00 am (ACDT) ' +
+				'to 2:00 am (ACST), so 2:30 am happened twice: first on ACDT, then on ACST.'
+		);
+		expect(describeClockChange('2026-04-05', '09:00', ZONE)).toBeNull();
+	});
+
+	it('handles a half-hour change', () => {
+		// Source: IANA tz 'australasia' — Australia/Lord_Howe saves 0:30; daylight time ends the
+		// first Sunday of April at 02:00 daylight time (LHDT), back to 01:30 standard (LHST).
+		expect(describeClockChange('2026-04-05', '01:45', 'Australia/Lord_Howe')).toBe(
+			'On Sun 5 Apr 2026 the clocks in Australia/Lord_Howe went back 30 minutes at 2:00 am ' +
+				'(LHDT) to 1:30 am (LHST), so 1:45 am happened twice: first on LHDT, then on LHST.'
 		);
 	});
 });

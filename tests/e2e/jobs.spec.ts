@@ -27,6 +27,12 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 
 	await expect(page.getByRole('heading', { name: 'Power' })).toBeVisible();
 	await page.getByText('Hard-wired with parking mode').click();
+	// A reading no rested battery gives is refused with a reason; a real one is kept.
+	const restVolts = page.getByLabel('Battery rest voltage you measured, V (optional)');
+	await restVolts.fill('15');
+	await page.getByRole('button', { name: 'Save and continue' }).click();
+	await expect(page.getByText(/above that is a charger or a running engine/)).toBeVisible();
+	await restVolts.fill('12.45');
 	await page.getByRole('button', { name: 'Save and continue' }).click();
 
 	await expect(page.getByRole('heading', { name: 'Where and when' })).toBeVisible();
@@ -67,6 +73,14 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 	await expect(sheet.getByRole('heading', { name: 'Labour' })).toBeVisible();
 	await expect(sheet.getByText(/2 × Fuse tap, mini blade/i)).toBeVisible();
 	await expect(sheet.getByTestId('parking-hours')).toContainText('hours');
+	// The sheet says what the estimate rests on: the measured start, the setup's draw, the car's
+	// own draw, the (partly derived) AGM table and the loaded-voltage caveat.
+	const assumptions = sheet.getByTestId('parking-assumptions');
+	await expect(assumptions).toContainText('from the 12.45 V you measured at rest');
+	await expect(assumptions).toContainText('500 mA for front and rear cameras');
+	await expect(assumptions).toContainText("The car's own standby draw: 50 mA");
+	await expect(assumptions).toContainText('derived by Tapline');
+	await expect(assumptions).toContainText('below the resting voltage');
 	await expect(sheet.getByText(/airbag/i).first()).toBeVisible();
 	await expect(sheet.getByTestId('price-range')).toContainText('$');
 

@@ -25,7 +25,8 @@ async function openHatchFromBoard(page: Page) {
 /** Sends a quote with the prefilled times, labour as given. */
 async function sendQuote(page: Page, labour: string) {
 	const form = page.getByTestId('quote-form');
-	await form.getByLabel('Labour ($, incl. GST)').fill(labour);
+	// '($, incl. GST)' for an installer registered for GST, '($)' for one who is not.
+	await form.getByLabel(/^Labour \(\$/).fill(labour);
 	await expect(form.getByLabel('Time 1: date')).not.toHaveValue('');
 	await expect(form.getByLabel('Time 2: date')).not.toHaveValue('');
 	await form.getByRole('button', { name: 'Send the quote' }).click();
@@ -68,6 +69,11 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 		.filter({ hasText: JOB })
 		.getByRole('link', { name: JOB })
 		.click();
+	// Ruth is not registered for GST: her form says so and asks for plain dollars.
+	await expect(ruth.getByTestId('quote-no-gst')).toContainText('not registered for GST');
+	await expect(
+		ruth.getByTestId('quote-form').getByLabel('Labour ($)', { exact: true })
+	).toBeVisible();
 	await sendQuote(ruth, '190.00');
 
 	// The owner compares the two quotes, sees the formula, and books the demo installer.
@@ -78,8 +84,28 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await expect(owner.getByRole('heading', { name: 'Compare quotes' })).toBeVisible();
 	await expect(owner.getByTestId('quote-row')).toHaveCount(2);
 	await expect(owner.getByTestId('best-fit-formula')).toContainText('45 % price');
-	await expect(owner.getByTestId('quote-table')).toContainText('No reviews yet');
+	await expect(owner.getByTestId('best-fit-formula')).toContainText(
+		'never changes the order of the others'
+	);
+	await expect(owner.getByTestId('quote-rating').first()).toHaveText(
+		'No reviews yet (ranked at the starting 4.00 ★ adjusted)'
+	);
+	// GST only where the installer is registered; otherwise the quote says there is none.
+	const rows = owner.getByTestId('quote-row');
+	await expect(rows.filter({ hasText: 'Headliner Hands' }).getByTestId('quote-gst')).toHaveText(
+		'No GST: this installer is not registered for GST'
+	);
+	await expect(rows.filter({ hasText: 'Fuse & Fettle' }).getByTestId('quote-gst')).toHaveText(
+		/^incl\. \$\d+\.\d{2} GST$/
+	);
 	await owner.screenshot({ path: testInfo.outputPath('comparison.png'), fullPage: true });
+	await rows
+		.filter({ hasText: 'Headliner Hands' })
+		.getByRole('link', { name: 'Details and booking' })
+		.click();
+	await expect(owner.getByTestId('quote-no-gst')).toContainText('so this quote has no GST line');
+	await expect(owner.getByTestId('quote-gst-line')).toHaveCount(0);
+	await owner.goBack();
 	// Sorting by total puts the cheaper quote (Ruth's labour was $40 less) first.
 	const total = owner.getByRole('columnheader', { name: 'Total' });
 	await total.getByRole('link').click();

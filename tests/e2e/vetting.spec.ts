@@ -57,6 +57,9 @@ test('an installer applies, an admin asks for more, then approves; e-mails arriv
 	await page.getByLabel('Suburb or postcode you work from').fill('Norwood');
 	await page.getByRole('button', { name: 'Save and continue' }).click();
 	await expect(page.getByText('does not pass the ABN check')).toBeVisible();
+	// GST registration sits beside the ABN and has no answer chosen for the installer.
+	await expect(page.getByText('Say whether you are registered for GST')).toBeVisible();
+	await page.getByLabel('No, not registered for GST').check();
 	await page.getByLabel('ABN').fill('51 824 753 556');
 	await page.getByRole('button', { name: 'Save and continue' }).click();
 	await expect(page).toHaveURL(/\/installer\/documents$/);
@@ -110,6 +113,9 @@ test('an installer applies, an admin asks for more, then approves; e-mails arriv
 	await admin.getByRole('link', { name: business }).click();
 	await expect(admin.getByTestId('application-standing')).toHaveText('Waiting for an admin');
 	await expect(admin.getByTestId('abn')).toContainText('51 824 753 556 (passes the ABN check)');
+	await expect(admin.getByTestId('gst-registered')).toHaveText(
+		'Not registered for GST (quotes carry no GST)'
+	);
 	await expect(
 		admin.getByRole('img', { name: 'Photo ID uploaded by the installer' })
 	).toBeVisible();

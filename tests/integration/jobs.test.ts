@@ -78,7 +78,8 @@ describe('job drafts', () => {
 		// Parking mode needs two fuse taps, one switched and one permanent (common trade practice).
 		const taps = posted?.scope?.parts.find((p) => p.code === 'fuse-tap-mini');
 		expect(taps?.quantity).toBe(2);
-		expect(posted?.scope?.parking?.budget.hours).toBeGreaterThan(0);
+		const budget = posted?.scope?.parking?.budget;
+		expect(budget?.estimated && budget.hours).toBeGreaterThan(0);
 		expect(posted?.priceLowCents).toBe(posted?.scope?.price.totalIncGst.min);
 		expect(posted?.submittedAt).toBeInstanceOf(Date);
 	});

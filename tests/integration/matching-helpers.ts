@@ -34,6 +34,8 @@ export interface InstallerOptions {
 	workshop?: boolean;
 	freeRadiusKm?: number;
 	travelFeeCentsPerKm?: number;
+	/** Registered for GST; true unless said otherwise. */
+	gstRegistered?: boolean;
 }
 
 /** A vetted installer (by default) working weekdays 08:00–17:00 Adelaide time. */
@@ -43,6 +45,7 @@ export async function makeInstaller(options: InstallerOptions = {}) {
 	await db.insert(installerProfile).values({
 		userId: account.id,
 		businessName: `Test Fitting ${String(n)}`,
+		gstRegistered: options.gstRegistered ?? true,
 		suburb: 'Adelaide',
 		postcode: '5000',
 		latitude: base.lat,

@@ -1,4 +1,4 @@
-import { and, eq } from 'drizzle-orm';
+import { and, desc, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { booking, emailOutbox, job, jobMessage, quote, quoteRevision } from '$lib/server/db/schema';
@@ -40,6 +40,32 @@ describe('sending a quote', () => {
 		expect(row?.lines[0]).toMatchObject({ kind: 'labour', totalCents: 19_800 });
 		expect(row?.lines.filter((l) => l.kind === 'part')).toHaveLength(parts);
 		expect(row?.message).toBe(`Happy to do it. Ring ${MASK_PLACEHOLDER} to chat.`);
+	});
+
+	it('carries no GST from an installer not registered for GST, and the owner e-mail says so', async () => {
+		// Source: Australian Taxation Office, "Registering for GST" — only registered businesses
+		// charge GST.
+		const made = await makeOpenJob(ADELAIDE);
+		const installer = await makeInstaller({ base: ADELAIDE, gstRegistered: false });
+		const result = await submitQuote(installer.id, made.job.id, goodQuote(pricedParts(made.job)));
+		expect(result.ok).toBe(true);
+		const [row] = await db.select().from(quote).where(eq(quote.jobId, made.job.id));
+		expect(row?.totalCents).toBeGreaterThan(0);
+		expect(row?.gstCents).toBe(0);
+		expect(row?.gstRegistered).toBe(false);
+		const [revision] = await db
+			.select()
+			.from(quoteRevision)
+			.where(eq(quoteRevision.quoteId, row!.id));
+		expect(revision?.snapshot.gstRegistered).toBe(false);
+		expect(await sendOwnerQuoteDigest(made.job.id)).toBe(true);
+		const [mail] = await db
+			.select()
+			.from(emailOutbox)
+			.where(eq(emailOutbox.template, 'quotes-received'))
+			.orderBy(desc(emailOutbox.createdAt))
+			.limit(1);
+		expect(mail?.text).toContain('No GST: this installer is not registered for GST');
 	});
 
 	it('adds a travel line beyond the free radius at the installer rate', async () => {

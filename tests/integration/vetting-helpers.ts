@@ -59,6 +59,7 @@ export async function makeCompleteDraft(insuranceExpiresOn = '2030-06-30') {
 			contactName: 'Robin Test',
 			phone: '0412345678',
 			abn: VALID_ABN,
+			gstRegistered: true,
 			yearsInTrade: 6,
 			skills: ['parking-mode', 'tailgate-rear'],
 			offersMobile: true,

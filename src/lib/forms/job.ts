@@ -67,7 +67,8 @@ export const camerasStepSchema = z
 export const powerStepSchema = z.object({
 	power: choose(f.power, 'Choose how the camera is powered'),
 	parkingDrawMilliamps: f.parkingDrawMilliamps,
-	cutOffVolts: f.cutOffVolts
+	cutOffVolts: f.cutOffVolts,
+	restVolts: f.restVolts
 });
 
 export const TIME_WINDOWS = {

@@ -23,6 +23,14 @@ export const applicationSchema = z
 			.transform((v) => v.replace(/[\s()-]/g, ''))
 			.pipe(z.string().regex(PHONE_RE, 'Enter an Australian number, e.g. 0412 345 678')),
 		abn: abnSchema,
+		// No answer preselected (superforms would fill an enum with its first option): the
+		// installer says it, since quotes carry GST only when they are registered.
+		gstRegistered: z
+			.enum(['yes', 'no'])
+			.optional()
+			.refine((v) => v !== undefined, {
+				message: 'Say whether you are registered for GST'
+			}),
 		yearsInTrade: z
 			.number({ error: 'Enter a number of years' })
 			.int('Whole years, please')

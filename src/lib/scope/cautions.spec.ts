@@ -15,22 +15,31 @@ function codes(input: Partial<CautionInput>): string[] {
 }
 
 describe('cautionsFor', () => {
-	it('always covers windscreen position and consumer guarantees', () => {
+	it('always covers airbags, windscreen position and consumer guarantees', () => {
 		// Source: Australian Road Rules r 297 (driver's clear view); ACCC motor vehicle repairs
-		// guide (consumer guarantees cannot be excluded).
-		expect(codes({})).toEqual(['windscreen-position', 'consumer-guarantees']);
+		// guide (consumer guarantees cannot be excluded); vehicle service manuals (curtain airbags).
+		expect(codes({ power: 'hardwired-switched' })).toEqual(
+			expect.arrayContaining(['curtain-airbags', 'windscreen-position', 'consumer-guarantees'])
+		);
 		const windscreen = cautionsFor(quiet).find((c) => c.code === 'windscreen-position');
 		expect(windscreen?.body).toContain('r 297');
 	});
 
-	it('raises curtain airbags for yes and unknown, not for no', () => {
-		// Source: vehicle service manuals — route cables behind curtain airbags.
+	it('raises curtain airbags as danger for yes and unknown, and still asks to confirm for no', () => {
+		// Source: vehicle service manuals — route cables behind curtain airbags; common trade
+		// practice — owners often do not know, so the installer confirms on the day.
 		expect(codes({ curtainAirbags: 'yes' })).toContain('curtain-airbags');
 		expect(codes({ curtainAirbags: 'unknown' })).toContain('curtain-airbags');
-		expect(codes({ curtainAirbags: 'no' })).not.toContain('curtain-airbags');
 		const unknown = cautionsFor({ ...quiet, curtainAirbags: 'unknown' })[0];
 		expect(unknown?.severity).toBe('danger');
 		expect(unknown?.body).toMatch(/^Treat the car as having curtain airbags/);
+		const no = cautionsFor({ ...quiet, curtainAirbags: 'no' }).find(
+			(c) => c.code === 'curtain-airbags'
+		);
+		expect(no?.severity).toBe('warning');
+		expect(no?.title).toBe('Confirm on the day: curtain airbags');
+		expect(no?.body).toContain('installer checks on the day');
+		expect(no?.body).toContain('behind the pillar trim along the factory loom');
 	});
 
 	it('raises hybrid/EV and battery cautions only when they apply', () => {
@@ -40,6 +49,9 @@ describe('cautionsFor', () => {
 		expect(codes({ batteryType: 'agm' })).toContain('start-stop-battery');
 		expect(codes({ batteryType: 'efb' })).toContain('start-stop-battery');
 		expect(codes({ batteryType: 'unknown' })).not.toContain('start-stop-battery');
+		// Source: common trade practice — lead-acid tables and cut-offs do not apply to lithium.
+		expect(codes({ batteryType: 'lithium' })).toContain('lithium-12v');
+		expect(codes({ batteryType: 'flooded' })).not.toContain('lithium-12v');
 	});
 
 	it('raises fuse-tap cautions only for hard-wired power', () => {
@@ -56,10 +68,38 @@ describe('cautionsFor', () => {
 		}
 	});
 
-	it('raises the OBD cut-off caution only for OBD power', () => {
-		// Source: SAE J1962 — pin 16 is permanent battery positive.
+	it('says how to orient a tap, which slot takes which fuse and what to do with a spare blade', () => {
+		// Source: tap makers' instructions and common trade practice.
+		const body =
+			cautionsFor({ ...quiet, power: 'hardwired-parking' }).find(
+				(c) => c.code === 'fuse-tap-orientation'
+			)?.body ?? '';
+		expect(body).toContain('test light or multimeter');
+		expect(body).toContain('live with the ignition on and dead once any delayed switch-off');
+		expect(body).toContain('locked and asleep');
+		expect(body).toContain(
+			"original fuse goes in the slot that feeds the car's circuit and the new, small fuse in the added slot"
+		);
+		expect(body).toContain('insulated or removed');
+	});
+
+	it('raises the OBD caution only for OBD power, with pedals, knee airbag and when it stays live', () => {
+		// Source: SAE J1962 — pin 16 is permanent battery positive; common trade practice — route
+		// clear of the pedals and any knee airbag; some OBD ports stay live with the car off.
 		expect(codes({ power: 'obd' })).toContain('obd-always-on');
 		expect(codes({ power: 'hardwired-parking' })).not.toContain('obd-always-on');
+		const obd = cautionsFor({ ...quiet, power: 'obd' }).find((c) => c.code === 'obd-always-on');
+		expect(obd?.body).toContain('clear of the pedals and of any knee airbag');
+		expect(obd?.body).toContain('stays live with the car off and locked');
+	});
+
+	it('says a socket may stay live with the car off', () => {
+		// Source: common trade practice — some sockets stay live with the ignition off.
+		expect(codes({ power: 'socket' })).toContain('socket-live-when-off');
+		expect(codes({ power: 'battery-pack' })).toContain('socket-live-when-off');
+		expect(codes({ power: 'hardwired-switched' })).not.toContain('socket-live-when-off');
+		const socket = cautionsFor(quiet).find((c) => c.code === 'socket-live-when-off');
+		expect(socket?.body).toContain('stays live with the car off');
 	});
 
 	it('raises drilling consent and rear-window notes with a rear camera', () => {
@@ -69,6 +109,15 @@ describe('cautionsFor', () => {
 			expect.arrayContaining(['drilling-consent', 'rear-window'])
 		);
 		expect(codes({ cameras: 'front' })).not.toContain('drilling-consent');
+		const rear =
+			cautionsFor({ ...quiet, cameras: 'front-rear' }).find((c) => c.code === 'rear-window')
+				?.body ?? '';
+		// Source: common trade practice — a camera inside the glass sits within the wiper's sweep.
+		expect(rear).toContain("within the rear wiper's sweep");
+		expect(rear).not.toMatch(/clear of the wiper/i);
+		expect(rear).toContain('printed antenna lines');
+		expect(rear).toContain('slack in the cable at the tailgate hinge');
+		expect(rear).toContain('safe for rubber (silicone), never a petroleum-based one');
 	});
 
 	it('orders by severity and defers to local rules in every body', () => {

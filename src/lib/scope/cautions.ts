@@ -10,11 +10,13 @@ export type CautionCode =
 	| 'curtain-airbags'
 	| 'hybrid-ev-12v'
 	| 'start-stop-battery'
+	| 'lithium-12v'
 	| 'windscreen-position'
 	| 'fuse-tap-orientation'
 	| 'safety-circuits'
 	| 'ground-point'
 	| 'obd-always-on'
+	| 'socket-live-when-off'
 	| 'rear-window'
 	| 'drilling-consent'
 	| 'consumer-guarantees';
@@ -63,6 +65,17 @@ export function cautionsFor(input: CautionInput): Caution[] {
 				'airbag, tied to the factory harness, never across its face or where trim swings open ' +
 				"when it fires. The vehicle's service manual shows where it sits."
 		);
+	} else {
+		// Owners often cannot tell, and a wrong 'no' is the dangerous mistake: keep a caution.
+		add(
+			'curtain-airbags',
+			'warning',
+			'Confirm on the day: curtain airbags',
+			'You said the car has no curtain airbags. Owners often cannot tell, so the installer ' +
+				"checks on the day (an 'SRS' or 'airbag' mark on the pillar or roof-edge trim, or the " +
+				'service manual) and routes the cable behind the pillar trim along the factory loom ' +
+				'either way, never across the face of an airbag or where trim swings open.'
+		);
 	}
 	if (input.hybridOrEv) {
 		add(
@@ -93,6 +106,17 @@ export function cautionsFor(input: CautionInput): Caution[] {
 				'grounded to the negative post, or the charging system loses track of the battery.'
 		);
 	}
+	if (input.batteryType === 'lithium') {
+		add(
+			'lithium-12v',
+			'warning',
+			'12 V lithium battery',
+			'Lead-acid voltage tables and cut-off settings do not apply: a lithium battery holds ' +
+				'nearly the same voltage until it is almost empty, so a lead-acid cut-off can let parking ' +
+				"mode run it down to its own protection. Use a cut-off made for lithium (ask the kit's " +
+				'maker or the vehicle maker) or a separate battery pack; the sheet gives no parking estimate.'
+		);
+	}
 	add(
 		'windscreen-position',
 		'warning',
@@ -107,10 +131,15 @@ export function cautionsFor(input: CautionInput): Caution[] {
 			'fuse-tap-orientation',
 			'warning',
 			'Fit the fuse tap on the supply side',
-			'Pull the fuse and probe both terminals of the empty slot: the live one is the supply side, ' +
-				"and the tap's common blade goes there. Fitted the other way, the original fuse carries " +
-				'its own load plus the camera. Test a permanent supply with the car locked and left, ' +
-				'as some circuits switch off after the car goes to sleep.'
+			'Pull the fuse and probe both terminals of the empty slot with a test light or ' +
+				"multimeter: the live one is the supply side, and the tap's common blade goes there. " +
+				'Fitted the other way, the original fuse carries its own load plus the camera. On a ' +
+				"two-slot tap the car's original fuse goes in the slot that feeds the car's circuit and " +
+				'the new, small fuse in the added slot, never larger than the original. A switched supply ' +
+				'is live with the ignition on and dead once any delayed switch-off has passed; a ' +
+				'permanent supply must stay live with the car locked and asleep, which on some cars takes ' +
+				'many minutes, so it is tested only after the car has gone to sleep. Where a tap is used ' +
+				'in a way that leaves a blade exposed, that blade is insulated or removed.'
 		);
 		add(
 			'ground-point',
@@ -124,9 +153,24 @@ export function cautionsFor(input: CautionInput): Caution[] {
 		add(
 			'obd-always-on',
 			'warning',
-			'OBD power never switches off',
-			'The OBD port is live with the car locked, so the OBD cable must have a low-voltage ' +
-				'cut-off set high enough to leave starting reserve. Unplug it if the car will sit for weeks.'
+			'OBD power: live with the car off on most cars',
+			'On most cars the OBD port stays live with the car off and locked (pin 16 is permanent ' +
+				'battery positive, SAE J1962); on some it switches off with the ignition or once the car ' +
+				'sleeps, and parking mode then stops, so the installer checks it with a multimeter. The ' +
+				'OBD cable needs a low-voltage cut-off set high enough to leave starting reserve; unplug ' +
+				'it if the car will sit for weeks. Route the lead clear of the pedals and of any knee ' +
+				'airbag under the dash, tied so it cannot drop into the footwell.'
+		);
+	}
+	if (input.power === 'socket' || input.power === 'battery-pack') {
+		add(
+			'socket-live-when-off',
+			'info',
+			'Check whether the socket switches off',
+			'In many cars the 12 V socket goes dead with the ignition, so the camera records only ' +
+				'while driving. In some it stays live with the car off: a camera left plugged in then ' +
+				'keeps drawing from the battery and can flatten it. Check with the car locked, and ' +
+				'unplug the camera when the car will sit for long.'
 		);
 	}
 	if (hasRear) {
@@ -134,8 +178,11 @@ export function cautionsFor(input: CautionInput): Caution[] {
 			'rear-window',
 			'info',
 			'Rear camera placement',
-			'Keep the rear camera and its adhesive clear of the demister lines, and of the wiper if ' +
-				'the rear window has one.'
+			"Inside the glass: within the rear wiper's sweep where the car has one, so the camera " +
+				'looks through cleared glass; clear of the demister and printed antenna lines; high ' +
+				"enough not to block the driver's view in the mirror. Leave slack in the cable at the " +
+				'tailgate hinge. Where the cable passes through a rubber boot, use a lubricant that is ' +
+				'safe for rubber (silicone), never a petroleum-based one, which swells and splits it.'
 		);
 		add(
 			'drilling-consent',

@@ -1,37 +1,27 @@
 import { describe, expect, it } from 'vitest';
-import { ADELAIDE_MARKET, computeScope, jobRequestSchema, type JobRequestInput } from './index';
+import { DEMO_WAGON_JOB } from './demo-job';
+import { ADELAIDE_MARKET, computeScope } from './index';
 
-// Invented demo job; no real make or model.
-const JOB: JobRequestInput = jobRequestSchema.parse({
-	make: 'Demo Motors',
-	model: 'Estate',
-	year: '2020',
-	bodyStyle: 'wagon',
-	fuseFamily: 'low-profile-mini',
-	batteryType: 'flooded',
-	batteryAh: 60,
-	curtainAirbags: 'yes',
-	cameras: 'front-rear',
-	cameraSupply: 'owner',
-	power: 'hardwired-parking'
-});
+const JOB = DEMO_WAGON_JOB;
 
 describe('computeScope', () => {
 	it('assembles labour, parts, parking budget, price and cautions', () => {
 		const sheet = computeScope(JOB);
 		// Source: common trade practice — front + rear through a tailgate 90–150 min, plus our
-		// 10–20 min parking-mode test.
-		expect([sheet.labour.minMinutes, sheet.labour.maxMinutes]).toEqual([100, 170]);
+		// 20–60 min parking-mode test (cars take up to about an hour to sleep).
+		expect([sheet.labour.minMinutes, sheet.labour.maxMinutes]).toEqual([110, 210]);
 		// Source: common trade practice — wagon rear run 5–6.5 m, 6 m stock -> 1 m extension.
 		expect(sheet.rearCable).toEqual({ minMetres: 5, maxMetres: 6.5, extensionMetres: 1 });
 		// Source: common trade practice — two taps of the car's family for parking mode.
 		expect(sheet.parts.find((p) => p.code === 'fuse-tap-low-profile-mini')?.quantity).toBe(2);
-		// Source: the worked example in battery.spec.ts (BCI table; 60 Ah, 12.2 V default cut-off
-		// for flooded, 250 mA default draw) -> 116.96 h.
+		// Source: BCI table and common trade practice, worked by hand: 60 Ah flooded from the
+		// assumed 75 % to the 12.2 V default cut-off (44.444 %) = 18.333 Ah, over the front + rear
+		// default draw 500 mA (from memory, top of 0.30–0.50 A) plus the car's 50 mA -> 33.33 h.
 		expect(sheet.parking?.cutOffVolts).toBe(12.2);
 		expect(sheet.parking?.cutOffDefaulted).toBe(true);
-		expect(sheet.parking?.drawMilliamps).toBe(250);
-		expect(sheet.parking?.budget.hours).toBeCloseTo(116.96, 2);
+		expect(sheet.parking?.drawMilliamps).toBe(500);
+		const budget = sheet.parking?.budget;
+		expect(budget?.estimated && budget.hours).toBeCloseTo(33.33, 2);
 		expect(sheet.cautions[0]?.code).toBe('curtain-airbags');
 		expect(sheet.price.currency).toBe('AUD');
 	});
@@ -44,8 +34,8 @@ describe('computeScope', () => {
 		const minEx = sheet.price.labourExGst.min + partsExGst;
 		expect(sheet.price.totalIncGst.min).toBe(minEx + Math.round(minEx / 10));
 		expect(sheet.price.gstIncluded.min).toBe(Math.round(sheet.price.totalIncGst.min / 11));
-		// Source: our stated rule — 110 $/h x 100 min = 18333.3 c -> 18333 (demo rate, invented).
-		expect(sheet.price.labourExGst.min).toBe(18_333);
+		// Source: our stated rule — 110 $/h x 110 min = 20166.7 c -> 20167 (demo rate, invented).
+		expect(sheet.price.labourExGst.min).toBe(20_167);
 	});
 
 	it('uses the stricter default cut-off for start-stop cars and honours an owner choice', () => {

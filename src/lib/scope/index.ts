@@ -2,14 +2,9 @@
  * The job scope sheet: labour, parts, parking-mode budget, price guide and cautions, computed
  * from the owner's answers. Pure: no I/O, safe in the browser and in tests.
  */
-import {
-	DEFAULT_PARKING_DRAW_MILLIAMPS,
-	defaultCutOffVolts,
-	parkingBudget,
-	type ParkingBudget
-} from './battery';
 import { cautionsFor, type Caution } from './cautions';
 import { estimateLabour, type LabourEstimate } from './labour';
+import { parkingScope, type ParkingScope } from './parking';
 import { listParts, rearCableNeed, type Part, type RearCableNeed } from './parts';
 import { ADELAIDE_MARKET, priceGuide, type Market, type PriceGuide } from './price';
 import type { JobRequestInput } from './request';
@@ -18,19 +13,10 @@ export * from './battery';
 export * from './cautions';
 export * from './fuses';
 export * from './labour';
+export * from './parking';
 export * from './parts';
 export * from './price';
 export * from './request';
-
-export interface ParkingScope {
-	drawMilliamps: number;
-	/** True when the owner left the draw blank and the default was used. */
-	drawDefaulted: boolean;
-	cutOffVolts: number;
-	/** True when the owner left the cut-off blank and the battery-type default was used. */
-	cutOffDefaulted: boolean;
-	budget: ParkingBudget;
-}
 
 export interface ScopeSheet {
 	labour: LabourEstimate;
@@ -59,25 +45,5 @@ export function computeScope(input: JobRequestInput, market: Market = ADELAIDE_M
 		parking: parkingScope(input),
 		price: priceGuide(labour, parts, market, cameraBudgetCents),
 		cautions: cautionsFor(input)
-	};
-}
-
-function parkingScope(input: JobRequestInput): ParkingScope | null {
-	if (input.power !== 'hardwired-parking' && input.power !== 'obd') return null;
-	const drawMilliamps = input.parkingDrawMilliamps ?? DEFAULT_PARKING_DRAW_MILLIAMPS;
-	const cutOffVolts = input.cutOffVolts ?? defaultCutOffVolts(input.batteryType, input.startStop);
-	return {
-		drawMilliamps,
-		drawDefaulted: input.parkingDrawMilliamps === undefined,
-		cutOffVolts,
-		cutOffDefaulted: input.cutOffVolts === undefined,
-		budget: parkingBudget({
-			capacityAh: input.batteryAh,
-			bodyStyle: input.bodyStyle,
-			batteryType: input.batteryType,
-			startStop: input.startStop,
-			cutOffVolts,
-			cameraDrawAmps: drawMilliamps / 1000
-		})
 	};
 }

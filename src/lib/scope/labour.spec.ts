@@ -47,8 +47,11 @@ describe('estimateLabour totals', () => {
 
 	it('adds a parking-mode test for always-on power', () => {
 		// Source: common trade practice — a permanent supply is tested with the car locked and
-		// left; the 10–20 min allowance is our estimate.
-		expect(range({ power: 'hardwired-parking' })).toEqual([40, 80]);
+		// asleep, and cars take from minutes to about an hour to sleep; the 20–60 min allowance
+		// (part of the wait overlaps tidying up) is our estimate. 30–60 + 20–60 = 50–120.
+		expect(range({ power: 'hardwired-parking' })).toEqual([50, 120]);
+		const test = estimateLabour({ ...base, power: 'hardwired-parking' }).lines.at(-1);
+		expect(test?.label).toContain('up to an hour to sleep');
 		expect(codes({ power: 'obd' })).toEqual(['front-camera', 'power-obd', 'parking-mode-test']);
 	});
 });

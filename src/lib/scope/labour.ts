@@ -3,7 +3,8 @@
  * practice ranges, split so the usual job totals come out as the trade quotes them:
  * front plug-in 15–30 min, front hard-wired 30–60, front + rear sedan 60–120, front + rear
  * through a tailgate grommet 90–150, utes and vans 2–4 h; cabin camera +15–30, battery pack
- * +30–60, removing an old unit +30–60. Real fits should calibrate these.
+ * +30–60, removing an old unit +30–60. Parking mode adds a test with the car asleep (20–60 min,
+ * our estimate; see the line). Real fits should calibrate these.
  */
 import type { BodyStyle, CameraSetup, PowerMode } from './request';
 
@@ -59,12 +60,14 @@ const LINES: Readonly<Record<LabourCode, LabourLine>> = {
 	// Our estimate: OBD plugs in, but the lead still has to be routed and the cut-off set.
 	'power-obd': line('power-obd', 'Power from the OBD port, lead routed, cut-off set', 10, 20),
 	'battery-pack': line('battery-pack', 'Mount battery pack and route its charge lead', 30, 60),
-	// Our estimate: the permanent supply is checked with the car locked and asleep.
+	// Our estimate. The permanent supply and the switch into parking mode can only be checked
+	// once the car is locked and asleep, and cars take from a few minutes to about an hour to go
+	// to sleep (common trade practice); tidying trim overlaps part of the wait, so 20–60 min.
 	'parking-mode-test': line(
 		'parking-mode-test',
-		'Test parking mode with the car locked and asleep',
-		10,
-		20
+		'Test parking mode with the car locked and asleep (some cars take up to an hour to sleep)',
+		20,
+		60
 	),
 	'rear-tailgate': line('rear-tailgate', 'Rear camera; cable through the tailgate grommet', 60, 90),
 	'rear-sedan': line(

@@ -34,6 +34,12 @@ describe('fuse taps', () => {
 		});
 		expect(find(parts, 'ring-terminal')?.quantity).toBe(1);
 		expect(find(parts, 'hardwire-kit-cut-off')?.quantity).toBe(1);
+		// Source: tap makers' instructions — original fuse in the slot feeding the car's circuit,
+		// new small fuse in the added slot; common trade practice — spare blades insulated.
+		const note = find(parts, 'fuse-tap-mini')?.note ?? '';
+		expect(note).toContain("Original fuse in the slot that feeds the car's circuit");
+		expect(note).toContain('new small fuse in the added slot');
+		expect(note).toContain('unused exposed blade is insulated or removed');
 	});
 
 	it('uses one tap and a plain kit for switched-only power', () => {

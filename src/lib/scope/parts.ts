@@ -180,9 +180,19 @@ function powerParts(input: PartsInput): Part[] {
 	return parts;
 }
 
+/**
+ * How a two-slot tap is filled (tap makers' instructions; common trade practice): the car's own
+ * fuse in the slot that feeds the car's circuit, the new small fuse in the added slot.
+ */
+export const TWO_SLOT_TAP_NOTE =
+	"Original fuse in the slot that feeds the car's circuit, the new small fuse in the added slot; " +
+	'common blade on the supply side (checked with a test light or multimeter). An unused exposed ' +
+	'blade is insulated or removed.';
+
 function fuseTapNote(family: FuseFamilyAnswer, taps: number): string {
-	const supplies =
-		taps === 2 ? 'One on a switched supply, one on a permanent supply.' : 'On a switched supply.';
+	const supplies = `${
+		taps === 2 ? 'One on a switched supply, one on a permanent supply.' : 'On a switched supply.'
+	} ${TWO_SLOT_TAP_NOTE}`;
 	if (family === 'unknown') return `${supplies} The installer confirms the fuse family on the day.`;
 	if (family === 'micro3') {
 		return `${supplies} Micro3 slots carry two circuits and need their own three-blade tap; otherwise use another slot.`;

@@ -26,7 +26,8 @@ export const FUSE_FAMILY_ANSWERS = [
 ] as const;
 export type FuseFamilyAnswer = (typeof FUSE_FAMILY_ANSWERS)[number];
 
-export const BATTERY_TYPES = ['flooded', 'efb', 'agm', 'unknown'] as const;
+/** 'lithium': a 12 V lithium starter battery (some recent cars, EVs especially). */
+export const BATTERY_TYPES = ['flooded', 'efb', 'agm', 'lithium', 'unknown'] as const;
 export type BatteryType = (typeof BATTERY_TYPES)[number];
 
 export const CURTAIN_AIRBAG_ANSWERS = ['yes', 'no', 'unknown'] as const;
@@ -50,6 +51,14 @@ export type PowerMode = (typeof POWER_MODES)[number];
 /** Cut-off voltages hard-wire kits offer (published: kit listings, 11.6–12.5 V). */
 export const CUT_OFF_VOLTS_MIN = 11.6;
 export const CUT_OFF_VOLTS_MAX = 12.5;
+
+/**
+ * What a rested 12 V car battery can read (Tapline's bounds): below 10.5 V a lead-acid battery
+ * is flat and damaged or has a dead cell (from memory: 10.5 V is the usual end of discharge);
+ * above 13.5 V the reading is a charger or running engine, not a battery at rest.
+ */
+export const REST_VOLTS_MIN = 10.5;
+export const REST_VOLTS_MAX = 13.5;
 
 const requiredText = (field: string, max: number) =>
 	textField({ error: `Enter the ${field}` })
@@ -102,6 +111,15 @@ export const jobRequestSchema = z
 			})
 			.max(CUT_OFF_VOLTS_MAX, {
 				error: `Choose a cut-off between ${CUT_OFF_VOLTS_MIN} V and ${CUT_OFF_VOLTS_MAX} V`
+			})
+			.optional(),
+		restVolts: z
+			.number({ error: 'Enter the voltage you measured, e.g. 12.4' })
+			.min(REST_VOLTS_MIN, {
+				error: `A rested 12 V battery reads between ${REST_VOLTS_MIN} V and ${REST_VOLTS_MAX} V; check the reading`
+			})
+			.max(REST_VOLTS_MAX, {
+				error: `A rested 12 V battery reads between ${REST_VOLTS_MIN} V and ${REST_VOLTS_MAX} V; above that is a charger or a running engine`
 			})
 			.optional(),
 		removeOldUnit: z.boolean({ error: 'Say whether an old unit comes out' }).default(false)

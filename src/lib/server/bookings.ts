@@ -7,7 +7,7 @@
  * 409 with a clear message. Holds that run out lapse, and the slot and the job open again.
  */
 import { and, eq, gt, inArray, lte, ne, or, type SQL } from 'drizzle-orm';
-import { formatSlot } from '$lib/schedule';
+import { formatSlotLabel } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, quote, user } from './db/schema';
@@ -143,7 +143,7 @@ export async function bookQuote(
 				data: {
 					businessName: chosen.businessName,
 					title,
-					slot: formatSlot(slot, chosen.timeZone),
+					slot: formatSlotLabel(slot, chosen.timeZone),
 					holdUntil: formatInZone(holdExpiresAt, chosen.timeZone, 'h:mm a, EEE d MMM'),
 					url: appUrl(`/installer/jobs/${jobId}`)
 				}
@@ -218,7 +218,7 @@ export async function lapseHolds(
 				data: {
 					businessName: person.businessName,
 					title: titleOrUntitled(j?.title),
-					slot: formatSlot(
+					slot: formatSlotLabel(
 						{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
 						person.timeZone
 					)
@@ -264,10 +264,13 @@ export async function getOwnerBooking(bookingId: string, ownerId: string) {
 			jobId: job.id,
 			businessName: installerProfile.businessName,
 			suburb: installerProfile.suburb,
-			timeZone: job.timeZone
+			timeZone: job.timeZone,
+			gstRegistered: quote.gstRegistered,
+			gstCents: quote.gstCents
 		})
 		.from(booking)
 		.innerJoin(job, eq(job.id, booking.jobId))
+		.innerJoin(quote, eq(quote.id, booking.quoteId))
 		.innerJoin(installerProfile, eq(installerProfile.userId, booking.installerId))
 		.where(and(eq(booking.id, bookingId), eq(booking.ownerId, ownerId)));
 	return row ?? null;

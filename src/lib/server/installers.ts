@@ -34,6 +34,8 @@ export interface ApplicationInput {
 	contactName: string;
 	phone: string;
 	abn: string;
+	/** Registered for GST: the installer's quotes carry GST only then. */
+	gstRegistered: boolean;
 	yearsInTrade: number;
 	skills: string[];
 	offersMobile: boolean;
@@ -88,6 +90,8 @@ export async function saveApplication(
 		const fields = {
 			contactName: input.contactName,
 			phone: input.phone,
+			// Not locked on approval like the ABN: registration changes as a business grows.
+			gstRegistered: input.gstRegistered,
 			yearsInTrade: input.yearsInTrade,
 			skills: input.skills,
 			offersMobile: input.offersMobile,

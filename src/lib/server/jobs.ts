@@ -164,7 +164,7 @@ export function draftProblems(draft: Job, now = new Date()): PostProblem[] {
 			'hybridOrEv',
 			'curtainAirbags'
 		]);
-		const powerFields = new Set(['power', 'parkingDrawMilliamps', 'cutOffVolts']);
+		const powerFields = new Set(['power', 'parkingDrawMilliamps', 'cutOffVolts', 'restVolts']);
 		for (const issue of parsed.error.issues) {
 			const field = String(issue.path[0] ?? '');
 			const step: JobStep = vehicleFields.has(field)

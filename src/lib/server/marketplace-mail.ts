@@ -12,7 +12,8 @@ export type MarketplaceEmail =
 			data: {
 				displayName: string;
 				title: string;
-				quotes: Array<{ businessName: string; total: string; revised: boolean }>;
+				/** `gst`: 'incl. $36.36 GST' or the no-GST note; older queued e-mails lack it. */
+				quotes: Array<{ businessName: string; total: string; revised: boolean; gst?: string }>;
 				url: string;
 			};
 	  }
@@ -50,7 +51,8 @@ export function renderMarketplaceEmail(message: MarketplaceEmail): RenderedEmail
 							: `${String(n)} vetted installers sent or updated quotes:`
 					],
 					list: quotes.map(
-						(q) => `${q.businessName}: ${q.total} incl. GST${q.revised ? ' (revised)' : ''}`
+						(q) =>
+							`${q.businessName}: ${q.total} ${q.gst ?? 'incl. GST'}${q.revised ? ' (revised)' : ''}`
 					),
 					action: { label: 'Compare the quotes', url: message.data.url },
 					footnote: 'We gather quotes that arrive close together into one e-mail.'

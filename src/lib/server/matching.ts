@@ -18,6 +18,7 @@ import {
 import { BOARD_DEFAULT_DIR, BOARD_SORTS, type BoardJob, type BoardSort } from '$lib/board';
 import { decodeCursor, pageAfter } from '$lib/paging';
 import { BODY_STYLES, CAMERA_SETUPS, POWER_MODES } from '$lib/scope/request';
+import { parkingSummary } from '$lib/scope/parking';
 import { canQuote } from '$lib/vetting';
 import { db } from './db';
 import { booking, installerProfile, job, jobNotice, quote, user, type Job } from './db/schema';
@@ -37,6 +38,7 @@ export interface InstallerContext extends InstallerReach {
 	timeZone: string;
 	freeRadiusKm: number;
 	travelFeeCentsPerKm: number;
+	gstRegistered: boolean;
 }
 
 /** The installer's matching facts, or null before they have a profile. */
@@ -54,7 +56,8 @@ export async function getInstallerContext(installerId: string): Promise<Installe
 		vettingStatus: p.vettingStatus,
 		timeZone: p.timeZone,
 		freeRadiusKm: p.freeRadiusKm,
-		travelFeeCentsPerKm: p.travelFeeCentsPerKm
+		travelFeeCentsPerKm: p.travelFeeCentsPerKm,
+		gstRegistered: p.gstRegistered
 	};
 }
 
@@ -184,9 +187,7 @@ function summarise(row: Pick<Job, 'scope'>): string {
 	if (!scope) return '';
 	const parts = scope.parts.reduce((n, p) => n + p.quantity, 0);
 	const rear = scope.rearCable ? `, rear cable ${String(scope.rearCable.maxMetres)} m` : '';
-	const parking = scope.parking
-		? `, parking ${String(Math.floor(scope.parking.budget.hours))} h`
-		: '';
+	const parking = scope.parking ? `, ${parkingSummary(scope.parking)}` : '';
 	return `${String(scope.labour.minMinutes)}–${String(scope.labour.maxMinutes)} min, ${String(parts)} parts${rear}${parking}`;
 }
 

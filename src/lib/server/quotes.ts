@@ -8,6 +8,7 @@ import { and, asc, eq, gt, inArray, isNull, lt, or } from 'drizzle-orm';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { approximateLocation, matchProblem, reachOf } from '$lib/matching';
 import { priceQuote, quoteProblems, travelFeeCents } from '$lib/pricing';
+import { quoteGstNote } from '$lib/gst';
 import { formatAud } from '$lib/money';
 import type { Interval } from '$lib/schedule';
 import { db } from './db';
@@ -114,7 +115,8 @@ export async function submitQuote(
 					? { label: 'Camera supplied', cents: input.cameraCents }
 					: null,
 				travelCents: travel,
-				travelLabel: `Travel: ${distance.toFixed(1)} km, ${String(profile.freeRadiusKm)} km free, ${formatAud(profile.travelFeeCentsPerKm)}/km after`
+				travelLabel: `Travel: ${distance.toFixed(1)} km, ${String(profile.freeRadiusKm)} km free, ${formatAud(profile.travelFeeCentsPerKm)}/km after`,
+				gstRegistered: profile.gstRegistered
 			});
 		} catch {
 			return refuse(400, 'Enter every amount as dollars and cents of $0 or more.');
@@ -151,6 +153,7 @@ export async function submitQuote(
 			travelCents: priced.travelCents,
 			totalCents: priced.totalCents,
 			gstCents: priced.gstCents,
+			gstRegistered: profile.gstRegistered,
 			warrantyMonths: input.warrantyMonths,
 			cameraSupplied: input.cameraSupplied,
 			slots,
@@ -270,6 +273,8 @@ export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Pro
 		const fresh = await tx
 			.select({
 				totalCents: quote.totalCents,
+				gstCents: quote.gstCents,
+				gstRegistered: quote.gstRegistered,
 				revision: quote.revision,
 				businessName: installerProfile.businessName
 			})
@@ -286,6 +291,7 @@ export async function sendOwnerQuoteDigest(jobId: string, now = new Date()): Pro
 				quotes: fresh.map((q) => ({
 					businessName: q.businessName,
 					total: formatAud(q.totalCents),
+					gst: quoteGstNote(q),
 					revised: q.revision > 1
 				})),
 				url: appUrl(`/owner/jobs/${jobId}/quotes`)

@@ -104,6 +104,8 @@ export const installerProfile = pgTable(
 		contactName: text('contact_name'),
 		phone: text('phone'),
 		abn: varchar('abn', { length: 11 }),
+		/** Registered for GST: only then do the installer's quotes carry GST (see $lib/gst). */
+		gstRegistered: boolean('gst_registered').notNull().default(false),
 		yearsInTrade: smallint('years_in_trade'),
 		/** What they fit: see INSTALLER_SKILLS in $lib/vetting. */
 		skills: text('skills').array().notNull().default([]),
@@ -346,6 +348,11 @@ export const quote = pgTable(
 		travelCents: integer('travel_cents').notNull().default(0),
 		totalCents: integer('total_cents').notNull(),
 		gstCents: integer('gst_cents').notNull().default(0),
+		/**
+		 * Whether the installer was registered for GST when this revision was priced (no GST line
+		 * otherwise). Quotes written before the column existed were all priced with GST.
+		 */
+		gstRegistered: boolean('gst_registered').notNull().default(true),
 		warrantyMonths: smallint('warranty_months').notNull().default(12),
 		cameraSupplied: boolean('camera_supplied').notNull().default(false),
 		slots: jsonb('slots').$type<QuoteSlot[]>().notNull().default([]),

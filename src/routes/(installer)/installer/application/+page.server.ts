@@ -24,6 +24,7 @@ export const load: PageServerLoad = async () => {
 				contactName: p.contactName ?? '',
 				phone: p.phone ?? '',
 				abn: p.abn ?? '',
+				gstRegistered: p.gstRegistered ? ('yes' as const) : ('no' as const),
 				yearsInTrade: p.yearsInTrade ?? 0,
 				skills: p.skills.filter((s): s is InstallerSkill =>
 					INSTALLER_SKILLS.includes(s as InstallerSkill)
@@ -71,11 +72,12 @@ export const actions = {
 				longitude: found.lng
 			};
 		}
-		const { workMode, ...rest } = form.data;
+		const { workMode, gstRegistered, ...rest } = form.data;
 		const result = await saveApplication(
 			installer.id,
 			{
 				...rest,
+				gstRegistered: gstRegistered === 'yes',
 				offersMobile: workMode !== 'workshop',
 				offersWorkshop: workMode !== 'mobile',
 				workshopAddress: rest.workshopAddress || null

@@ -6,7 +6,7 @@ import { requireRole } from '$lib/server/guards';
 import { listJobPhotos } from '$lib/server/jobs';
 import { refusalFail, refusalMessage } from '$lib/server/respond';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
-import { formatSlot } from '$lib/schedule';
+import { formatSlotLabel } from '$lib/schedule';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuoteRevisions, submitQuote, withdrawQuote } from '$lib/server/quotes';
 import { quoteFormSchema, toQuoteInput } from './quote-form';
@@ -47,14 +47,15 @@ export const load: PageServerLoad = async ({ params }) => {
 			lines: q.lines,
 			totalCents: q.totalCents,
 			gstCents: q.gstCents,
+			gstRegistered: q.gstRegistered,
 			warrantyMonths: q.warrantyMonths,
 			cameraSupplied: q.cameraSupplied,
 			message: q.message,
-			slots: q.slots.map((s) => formatSlot(s, ctx.timeZone)),
+			slots: q.slots.map((s) => formatSlotLabel(s, ctx.timeZone)),
 			expiresAt: q.expiresAt?.toISOString() ?? null
 		},
 		bookingSlot: found.booking
-			? formatSlot(
+			? formatSlotLabel(
 					{
 						start: found.booking.slotStart.toISOString(),
 						end: found.booking.slotEnd.toISOString()
@@ -72,7 +73,8 @@ export const load: PageServerLoad = async ({ params }) => {
 		mayQuote: found.status === 'collecting_quotes' && found.problem === null && ctx.canQuote,
 		form,
 		askForm,
-		timeZone: ctx.timeZone
+		timeZone: ctx.timeZone,
+		gstRegistered: ctx.gstRegistered
 	};
 };
 
@@ -87,6 +89,7 @@ export const actions = {
 		} catch {
 			return message(form, 'One of the dates is not a real calendar date.', { status: 400 });
 		}
+		if ('problems' in input) return message(form, input.problems.join(' '), { status: 400 });
 		const result = await submitQuote(installer.id, params.id, input);
 		if (!result.ok) {
 			return refusalMessage(form, {

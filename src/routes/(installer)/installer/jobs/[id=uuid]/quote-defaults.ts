@@ -4,7 +4,7 @@
  * owner's preferred dates.
  */
 import { addGst } from '$lib/money';
-import { candidateSlots } from '$lib/schedule';
+import { candidateSlots, repeatedTimeChoiceOf } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
 import type { InstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { loadDiary } from '$lib/server/diary';
@@ -37,6 +37,7 @@ export async function quoteFormDefaults(
 				: 120,
 			slotDate: [0, 1, 2].map((i) => (slots[i] ? local(slots[i], 'yyyy-MM-dd') : '')),
 			slotTime: [0, 1, 2].map((i) => (slots[i] ? local(slots[i], 'HH:mm') : '')),
+			slotRepeat: [0, 1, 2].map((i) => (slots[i] ? repeatedTimeChoiceOf(slots[i], zone) : '')),
 			message: q.message ?? '',
 			expiresOn: q.expiresAt
 				? local(new Date(q.expiresAt.getTime() - 1), 'yyyy-MM-dd')
@@ -79,6 +80,7 @@ export async function quoteFormDefaults(
 		durationMinutes: duration,
 		slotDate: [0, 1, 2].map((i) => (picks[i] ? local(picks[i], 'yyyy-MM-dd') : '')),
 		slotTime: [0, 1, 2].map((i) => (picks[i] ? local(picks[i], 'HH:mm') : '')),
+		slotRepeat: [0, 1, 2].map((i) => (picks[i] ? repeatedTimeChoiceOf(picks[i], zone) : '')),
 		message: '',
 		expiresOn: local(new Date(now.getTime() + QUOTE_VALID_DAYS * 86_400_000), 'yyyy-MM-dd')
 	};

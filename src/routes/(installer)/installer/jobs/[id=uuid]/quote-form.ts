@@ -6,6 +6,7 @@
 import { z } from 'zod';
 import { isCalendarDate, textField } from '$lib/forms/fields';
 import { MAX_QUOTE_SLOTS } from '$lib/pricing';
+import { resolveSlotStart } from '$lib/schedule';
 import { localToUtc } from '$lib/time';
 import type { QuoteInput } from '$lib/server/quotes';
 
@@ -49,6 +50,11 @@ export const quoteFormSchema = z.object({
 		.array(z.string().refine((v) => v === '' || TIME.test(v), { error: 'Choose a start time' }))
 		.max(MAX_QUOTE_SLOTS)
 		.default(['', '', '']),
+	/** For a start time the clocks repeat (daylight saving ends): which of the two is meant. */
+	slotRepeat: z
+		.array(z.enum(['', 'earlier', 'later']))
+		.max(MAX_QUOTE_SLOTS)
+		.default(['', '', '']),
 	message: textField()
 		.trim()
 		.max(1000, { error: 'Keep the message under 1,000 characters' })
@@ -62,14 +68,27 @@ const addDay = (date: string) => {
 	return new Date(Date.UTC(y, m - 1, d + 1)).toISOString().slice(0, 10);
 };
 
-/** The form's values as quotes.ts takes them; the quote holds to the end of its expiry date. */
-export function toQuoteInput(form: QuoteForm, timeZone: string): QuoteInput {
+/**
+ * The form's values as quotes.ts takes them; the quote holds to the end of its expiry date. A
+ * start time the clocks skipped, or repeated without saying which, comes back as a problem.
+ */
+export function toQuoteInput(
+	form: QuoteForm,
+	timeZone: string
+): QuoteInput | { problems: string[] } {
+	const problems: string[] = [];
 	const slots = form.slotDate.flatMap((date, i) => {
 		const time = form.slotTime[i] ?? '';
 		if (!date || !time) return [];
-		const start = localToUtc(date, time, timeZone);
+		const resolved = resolveSlotStart(date, time, timeZone, form.slotRepeat[i] ?? '');
+		if (!resolved.ok) {
+			problems.push(`Time ${String(i + 1)}: ${resolved.problem}`);
+			return [];
+		}
+		const start = resolved.start;
 		return [{ start, end: new Date(start.getTime() + form.durationMinutes * 60_000) }];
 	});
+	if (problems.length > 0) return { problems };
 	return {
 		labourCents: Math.round(form.labourDollars * 100),
 		partUnitCents: form.partDollars.map((d) => Math.round(d * 100)),

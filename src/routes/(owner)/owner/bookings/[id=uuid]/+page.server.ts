@@ -1,9 +1,10 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { quoteGstNote } from '$lib/gst';
 import { bookingStatusAt } from '$lib/holds';
 import { getOwnerBooking } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
 import { startHeldFundsPayment } from '$lib/server/payments';
-import { formatSlot } from '$lib/schedule';
+import { formatSlotLabel } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
 import { titleOrUntitled } from '$lib/posted-job';
 
@@ -20,7 +21,8 @@ export const load: PageServerLoad = async ({ params }) => {
 			// A hold that ran out reads as lapsed now; the schedule records it within a minute.
 			status: bookingStatusAt(b, new Date()),
 			totalCents: b.totalCents,
-			slot: formatSlot(
+			gstNote: quoteGstNote({ gstRegistered: row.gstRegistered, gstCents: row.gstCents }),
+			slot: formatSlotLabel(
 				{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
 				row.timeZone
 			),

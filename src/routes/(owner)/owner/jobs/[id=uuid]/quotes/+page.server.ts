@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import { z } from 'zod';
-import { BEST_FIT_FORMULA } from '$lib/ranking';
+import { bestFitFormula, priceReferenceCents } from '$lib/ranking';
 import { jobStatusShown, quoteStatusShown } from '$lib/holds';
 import { getLiveBookingForJob } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/guards';
@@ -27,6 +27,10 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	if (!job) error(404, NOT_YOUR_JOB);
 	const { sort, dir: asked } = sortSchema.parse(Object.fromEntries(url.searchParams));
 	const dir = asked ?? (DESCENDING_FIRST.includes(sort) ? 'desc' : 'asc');
+	const reference = priceReferenceCents({
+		lowCents: job.priceLowCents,
+		highCents: job.priceHighCents
+	});
 	const [quotes, asking, booking] = await Promise.all([
 		listQuotesForOwner(job.id, owner.id),
 		listAskingInstallers(job.id),
@@ -43,12 +47,13 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		rows: compareQuotes(
 			(quotes ?? []).map((q) => ({ ...q, status: quoteStatusShown(q.status, booking !== null) })),
 			sort,
-			dir
+			dir,
+			reference
 		),
 		asking,
 		booking,
 		sort,
 		dir,
-		formula: BEST_FIT_FORMULA.split('\n')
+		formula: bestFitFormula(reference)
 	};
 };

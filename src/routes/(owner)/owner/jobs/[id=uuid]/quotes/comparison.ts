@@ -3,7 +3,8 @@
  * best-fit scores from $lib/ranking, and the sorts the table offers. No reviews exist yet, so
  * every installer's rating is the ranking's stated prior and the table says "no reviews yet".
  */
-import { rankQuotes, type BestFitScore } from '$lib/ranking';
+import { quoteGstNote } from '$lib/gst';
+import { rankQuotes, ratingSummary, type BestFitScore } from '$lib/ranking';
 import type { listQuotesForOwner } from '$lib/server/quotes';
 
 type OwnerQuote = NonNullable<Awaited<ReturnType<typeof listQuotesForOwner>>>[number];
@@ -34,9 +35,14 @@ export interface ComparisonRow {
 	partsCents: number;
 	travelCents: number;
 	gstCents: number;
+	/** 'incl. $36.36 GST', or that the installer is not registered for GST. */
+	gstNote: string;
 	distanceKm: number;
 	reviews: number;
+	/** Adjusted (Bayesian) rating in stars. */
 	rating: number;
+	/** E.g. '4.17 ★ adjusted (average 5.00 from 1 review)'. */
+	ratingLabel: string;
 	fitsCompleted: number;
 	earliestSlot: string | null;
 	warrantyMonths: number;
@@ -46,11 +52,15 @@ export interface ComparisonRow {
 	bestRank: number | null;
 }
 
-/** Builds and sorts the comparison; quotes no longer open go last whatever the sort. */
+/**
+ * Builds and sorts the comparison; quotes no longer open go last whatever the sort.
+ * @param referenceCents the middle of the job's price guide (see priceReferenceCents)
+ */
 export function compareQuotes(
 	quotes: readonly OwnerQuote[],
 	sort: ComparisonSort,
 	dir: 'asc' | 'desc',
+	referenceCents: number | null,
 	now = new Date()
 ): ComparisonRow[] {
 	const live = quotes.filter(
@@ -64,7 +74,8 @@ export function compareQuotes(
 			ratingSum: q.ratingSum,
 			ratingCount: q.ratingCount,
 			submittedAt: q.createdAt
-		}))
+		})),
+		referenceCents
 	);
 	const rows = quotes.map((q): ComparisonRow => {
 		const rank = ranked.findIndex((r) => r.id === q.id);
@@ -81,9 +92,11 @@ export function compareQuotes(
 			partsCents: q.partsCents,
 			travelCents: q.travelCents,
 			gstCents: q.gstCents,
+			gstNote: quoteGstNote(q),
 			distanceKm: q.distanceKm ?? 0,
 			reviews: q.ratingCount,
 			rating: ranked[rank]?.fit.rating ?? 0,
+			ratingLabel: ratingSummary(q.ratingSum, q.ratingCount).label,
 			fitsCompleted: q.fitsCompleted,
 			earliestSlot: future.sort()[0] ?? null,
 			warrantyMonths: q.warrantyMonths,

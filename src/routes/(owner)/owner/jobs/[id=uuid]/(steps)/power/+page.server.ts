@@ -11,7 +11,9 @@ export const load: PageServerLoad = async ({ params }) => {
 	return {
 		form: await superValidate(job.draft, zod4(powerStepSchema), { errors: false }),
 		batteryType: typeof job.draft.batteryType === 'string' ? job.draft.batteryType : 'unknown',
-		startStop: job.draft.startStop === true
+		startStop: job.draft.startStop === true,
+		hybridOrEv: job.draft.hybridOrEv === true,
+		cameras: typeof job.draft.cameras === 'string' ? job.draft.cameras : 'front'
 	};
 };
 
@@ -23,7 +25,12 @@ export const actions = {
 		const parking = form.data.power === 'hardwired-parking' || form.data.power === 'obd';
 		const values = parking
 			? form.data
-			: { power: form.data.power, parkingDrawMilliamps: undefined, cutOffVolts: undefined };
+			: {
+					power: form.data.power,
+					parkingDrawMilliamps: undefined,
+					cutOffVolts: undefined,
+					restVolts: undefined
+				};
 		const result = await saveJobStep(params.id, owner.id, 'power', values, {
 			power: form.data.power
 		});

@@ -9,7 +9,7 @@ import { bookQuote, getLiveBookingForJob, HOLD_MINUTES } from '$lib/server/booki
 import { requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { refusalMessage } from '$lib/server/respond';
-import { formatSlot } from '$lib/schedule';
+import { formatSlotLabel } from '$lib/schedule';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
 import { CONTACTS_HIDDEN_NOTE } from '$lib/labels';
@@ -58,6 +58,7 @@ export const load: PageServerLoad = async ({ params }) => {
 			lines: q.lines,
 			totalCents: q.totalCents,
 			gstCents: q.gstCents,
+			gstRegistered: q.gstRegistered,
 			warrantyMonths: q.warrantyMonths,
 			cameraSupplied: q.cameraSupplied,
 			message: q.message,
@@ -65,7 +66,7 @@ export const load: PageServerLoad = async ({ params }) => {
 			expiresAt: q.expiresAt?.toISOString() ?? null,
 			slots: q.slots.map((s) => ({
 				value: s.start,
-				label: formatSlot(s, job.timeZone),
+				label: formatSlotLabel(s, job.timeZone),
 				past: Date.parse(s.start) <= now
 			}))
 		},
