@@ -9,11 +9,12 @@ import { z } from 'zod';
 import * as authForms from '$lib/forms/auth';
 import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as jobForms from '$lib/forms/job';
+import * as threadForms from '$lib/forms/thread';
 import * as vettingForms from '$lib/forms/vetting';
 import * as jobRequest from '$lib/scope/request';
 import * as quoteForms from '../../src/routes/(installer)/installer/jobs/[id=uuid]/quote-form';
 
-const MODULES = { authForms, jobForms, vettingForms, jobRequest, quoteForms };
+const MODULES = { authForms, jobForms, threadForms, vettingForms, jobRequest, quoteForms };
 
 const schemas = Object.entries(MODULES).flatMap(([module, exports]) =>
 	Object.entries(exports)
@@ -54,7 +55,8 @@ describe('every free-text field refuses NUL characters', () => {
 				'jobForms.placeStepSchema.addressLine',
 				'jobRequest.jobRequestSchema.model',
 				'vettingForms.decisionSchema.message',
-				'quoteForms.askSchema.body'
+				'threadForms.threadMessageSchema.body',
+				'quoteForms.quoteFormSchema.message'
 			])
 		);
 	});
