@@ -10,15 +10,15 @@ import { building } from '$app/environment';
 import { env } from '$env/dynamic/private';
 import { env as publicEnv } from '$env/dynamic/public';
 import { readSession } from '$lib/server/auth';
-import { areaFor, signInUrl } from '$lib/server/guards';
+import { areaFor, signInUrl } from '$lib/server/http/guards';
 import { pool } from '$lib/server/db';
 import { startQueue, stopQueue } from '$lib/server/queue';
-import { applySecurityHeaders } from '$lib/server/security-headers';
+import { applySecurityHeaders } from '$lib/server/http/security-headers';
 import {
 	isServiceUnavailable,
 	RETRY_AFTER_SECONDS,
 	SERVICE_UNAVAILABLE_MESSAGE
-} from '$lib/server/unavailable';
+} from '$lib/server/http/unavailable';
 import { tileSource } from '$lib/map-tiles';
 
 export const init: ServerInit = async () => {

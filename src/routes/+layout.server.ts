@@ -1,4 +1,4 @@
-import { takeNotice } from '$lib/server/notice';
+import { takeNotice } from '$lib/server/http/notice';
 import type { LayoutServerLoad } from './$types';
 
 export const load: LayoutServerLoad = ({ locals, cookies }) => {

@@ -3,8 +3,8 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../local-fakes/smtp';
 import { db } from '$lib/server/db';
 import { emailOutbox } from '$lib/server/db/schema';
-import { appUrl } from '$lib/server/app-url';
-import { deliverEmail, listStrandedEmails, queueEmail, withMail } from '$lib/server/mail';
+import { appUrl } from '$lib/server/mail/app-url';
+import { deliverEmail, listStrandedEmails, queueEmail, withMail } from '$lib/server/mail/outbox';
 
 let fake: MailFake;
 

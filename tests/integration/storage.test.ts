@@ -1,7 +1,12 @@
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startS3Fake } from '../../local-fakes/s3';
-import { getObject, missingImageResponse, objectResponse, putObject } from '$lib/server/storage';
+import {
+	getObject,
+	missingImageResponse,
+	objectResponse,
+	putObject
+} from '$lib/server/files/storage';
 
 let close: () => Promise<void>;
 

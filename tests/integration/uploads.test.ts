@@ -1,10 +1,10 @@
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startS3Fake } from '../../local-fakes/s3';
-import { getObject } from '$lib/server/storage';
-import { storeUpload } from '$lib/server/uploads';
+import { getObject } from '$lib/server/files/storage';
+import { storeUpload } from '$lib/server/files/uploads';
 import { DOCUMENT_TYPES } from '$lib/uploads';
-import { PDF_PROBLEMS } from '$lib/server/pdf';
+import { PDF_PROBLEMS } from '$lib/server/files/pdf';
 import { cleanPdf, encryptedPdf, hostilePdfs, htmlWithPdfSignature } from '../support/pdfs';
 
 let close: () => Promise<void>;

@@ -7,8 +7,8 @@ import { and, eq, gt, isNull } from 'drizzle-orm';
 import { endAllSessions } from './auth';
 import { db, type Tx } from './db';
 import { emailToken, user, type Role, type User } from './db/schema';
-import { appUrl } from './app-url';
-import { withMail } from './mail';
+import { appUrl } from './mail/app-url';
+import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { hashPassword, verifyPassword } from './password';
 

@@ -11,8 +11,8 @@ import { formatSlotLabel } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, quote, user } from './db/schema';
-import { appUrl } from './app-url';
-import { withMail, type Mail } from './mail';
+import { appUrl } from './mail/app-url';
+import { withMail, type Mail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { titleOrUntitled } from '$lib/posted-job';
 

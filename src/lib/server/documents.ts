@@ -8,7 +8,7 @@ import {
 } from '$lib/vetting';
 import { db, type Tx } from './db';
 import { installerDocument, installerProfile } from './db/schema';
-import type { StoredUpload } from './uploads';
+import type { StoredUpload } from './files/uploads';
 
 export async function documentKinds(
 	tx: Tx | typeof db,

@@ -14,7 +14,7 @@ import {
 import { db } from './db';
 import { installerHours, installerProfile, vettingEvent, type InstallerProfile } from './db/schema';
 import { documentKinds, listInstallerDocuments } from './documents';
-import { withMail } from './mail';
+import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { lockProfile, mailData, recordEvent, type VettingOutcome } from './vetting';
 

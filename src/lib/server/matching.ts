@@ -22,8 +22,8 @@ import { parkingSummary } from '$lib/scope/parking';
 import { canQuote } from '$lib/vetting';
 import { db } from './db';
 import { booking, installerProfile, job, jobNotice, quote, user, type Job } from './db/schema';
-import { appUrl } from './app-url';
-import { withMail } from './mail';
+import { appUrl } from './mail/app-url';
+import { withMail } from './mail/outbox';
 import { titleOrUntitled } from '$lib/posted-job';
 
 /** The service-area form's upper limit, so a box this wide around a job holds every installer who could reach it. */

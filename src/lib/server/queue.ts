@@ -17,7 +17,7 @@ import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 import { QUEUES, QUOTE_DIGEST_SECONDS, setBoss } from './boss';
 import { lapseExpiredHolds } from './bookings';
-import { deliverEmail, listStrandedEmails } from './mail';
+import { deliverEmail, listStrandedEmails } from './mail/outbox';
 import { sendNewJobDigests } from './matching';
 import { listJobsWithUnsentQuotes, sendOwnerQuoteDigest } from './quotes';
 import { runInsuranceExpiryCheck } from './vetting';

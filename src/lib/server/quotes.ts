@@ -22,9 +22,9 @@ import {
 	type QuoteSlot
 } from './db/schema';
 import { loadDiary } from './diary';
-import { appUrl } from './app-url';
+import { appUrl } from './mail/app-url';
 import { requestQuoteDigest } from './boss';
-import { withMail } from './mail';
+import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
 import { titleOrUntitled } from '$lib/posted-job';

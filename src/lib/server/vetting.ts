@@ -33,10 +33,10 @@ import {
 	type VettingStatus
 } from './db/schema';
 import { DECISION_LABELS } from '$lib/labels';
-import { appUrl } from './app-url';
-import { withMail } from './mail';
+import { appUrl } from './mail/app-url';
+import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
-import type { EmailTemplate, VettingMailData } from './mail-templates';
+import type { EmailTemplate, VettingMailData } from './mail/templates';
 
 /** Smallest accepted public liability cover, from MIN_PUBLIC_LIABILITY_CENTS or the default. */
 export function minCoverCents(): number {

@@ -94,6 +94,7 @@ export async function newInstallerWithProfile(browser: Browser, label = 'install
 		contactName: 'Testing Person',
 		phone: '0412 345 678',
 		abn: '51 824 753 556', // passes the ABN check (the often-quoted example, from memory)
+		gstRegistered: 'yes',
 		yearsInTrade: '5',
 		skills: ['parking-mode'],
 		workMode: 'mobile',

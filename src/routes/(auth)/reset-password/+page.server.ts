@@ -3,7 +3,7 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { resetPasswordSchema } from '$lib/forms/auth';
 import { resetPassword } from '$lib/server/accounts';
-import { redirectWithNotice } from '$lib/server/notice';
+import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

@@ -4,7 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { safeRedirect, signInSchema } from '$lib/forms/auth';
 import { authenticate } from '$lib/server/accounts';
 import { startSession } from '$lib/server/auth';
-import { homeFor } from '$lib/server/guards';
+import { homeFor } from '$lib/server/http/guards';
 import {
 	checkSignInAllowed,
 	recordFailedSignIn,

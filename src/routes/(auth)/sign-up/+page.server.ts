@@ -4,8 +4,8 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { signUpSchema } from '$lib/forms/auth';
 import { createAccount } from '$lib/server/accounts';
 import { startSession } from '$lib/server/auth';
-import { homeFor } from '$lib/server/guards';
-import { refusalMessage } from '$lib/server/respond';
+import { homeFor } from '$lib/server/http/guards';
+import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {

@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { textField } from '$lib/forms/fields';
 import { resendVerification, verifyEmailToken } from '$lib/server/accounts';
-import { readFormData } from '$lib/server/form-data';
+import { readFormData } from '$lib/server/http/form-data';
 import type { Actions, PageServerLoad } from './$types';
 
 const confirmSchema = z.object({ token: textField().min(10).max(200) });

@@ -1,7 +1,7 @@
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
-import { refusalFail } from '$lib/server/respond';
-import { redirectWithNotice } from '$lib/server/notice';
+import { refusalFail } from '$lib/server/http/respond';
+import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {

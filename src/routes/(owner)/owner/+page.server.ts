@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { JOB_SORTS, listOwnerJobs } from '$lib/server/jobs';
 import type { PageServerLoad } from './$types';
 

@@ -1,5 +1,5 @@
 import { error, json } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { boardQuerySchema, getInstallerContext, searchBoard } from '$lib/server/matching';
 import type { RequestHandler } from './$types';
 

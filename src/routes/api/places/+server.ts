@@ -1,7 +1,7 @@
 import { error, json } from '@sveltejs/kit';
 import { textField } from '$lib/forms/fields';
 import { GeocoderUnavailable, searchPlaces } from '$lib/server/geocoding';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import type { RequestHandler } from './$types';
 
 const query = textField().trim().min(2).max(60);

@@ -3,8 +3,8 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { adminInviteSchema } from '$lib/forms/auth';
 import { createAdminAccount, listAdmins } from '$lib/server/accounts';
-import { requireRole } from '$lib/server/guards';
-import { refusalMessage } from '$lib/server/respond';
+import { requireRole } from '$lib/server/http/guards';
+import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {

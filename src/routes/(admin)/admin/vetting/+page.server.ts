@@ -1,4 +1,4 @@
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { listVettingQueue } from '$lib/server/vetting';
 import { QUEUE_SORTS, type QueueSort } from '$lib/vetting';
 import { VETTING_STATUSES, type VettingStatus } from '$lib/vetting';

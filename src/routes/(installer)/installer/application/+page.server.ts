@@ -3,10 +3,10 @@ import { setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { applicationSchema } from '$lib/forms/vetting';
 import { GeocoderUnavailable, searchPlaces } from '$lib/server/geocoding';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { getInstallerProfile, saveApplication, type BasePlace } from '$lib/server/installers';
 import { INSTALLER_SKILLS, stageOf, type InstallerSkill } from '$lib/vetting';
-import { refusalMessage } from '$lib/server/respond';
+import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 const workModeOf = (p: {

@@ -2,14 +2,14 @@ import { fail } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { insuranceSchema } from '$lib/forms/vetting';
-import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/form-data';
-import { requireRole } from '$lib/server/guards';
-import { discardUpload, storeUpload } from '$lib/server/uploads';
+import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/http/form-data';
+import { requireRole } from '$lib/server/http/guards';
+import { discardUpload, storeUpload } from '$lib/server/files/uploads';
 import { addInstallerDocument, listInstallerDocuments } from '$lib/server/documents';
 import { getInstallerProfile, saveInsuranceDetails } from '$lib/server/installers';
 import { DOCUMENT_TYPES, IMAGE_TYPES } from '$lib/uploads';
 import { DOCUMENT_KINDS, type DocumentKind } from '$lib/vetting';
-import { refusalMessage } from '$lib/server/respond';
+import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {

@@ -3,8 +3,8 @@ import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { isCalendarDate } from '$lib/forms/fields';
 import { blockedDateSchema, HOURS_FORM_ORDER, weeklyHoursSchema } from '$lib/forms/vetting';
-import { readFormData } from '$lib/server/form-data';
-import { requireRole } from '$lib/server/guards';
+import { readFormData } from '$lib/server/http/form-data';
+import { requireRole } from '$lib/server/http/guards';
 import {
 	blockDate,
 	getWeeklyHours,

@@ -1,4 +1,4 @@
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import {
 	boardQuerySchema,
 	getInstallerContext,

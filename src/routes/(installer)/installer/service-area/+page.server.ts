@@ -3,7 +3,7 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { serviceAreaSchema } from '$lib/forms/vetting';
 import { reversePlace } from '$lib/server/geocoding';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { getInstallerProfile, saveServiceArea } from '$lib/server/installers';
 import type { Actions, PageServerLoad } from './$types';
 

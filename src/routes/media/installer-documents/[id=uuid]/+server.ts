@@ -1,5 +1,5 @@
 import { error } from '@sveltejs/kit';
-import { missingImageResponse, objectResponse } from '$lib/server/storage';
+import { missingImageResponse, objectResponse } from '$lib/server/files/storage';
 import { findViewableDocument } from '$lib/server/documents';
 import { isProfilePublic } from '$lib/vetting';
 import type { RequestHandler } from './$types';

@@ -2,11 +2,11 @@ import { error, fail } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { decisionSchema } from '$lib/forms/vetting';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { decideApplication, getApplicationForReview } from '$lib/server/vetting';
-import { refusalMessage } from '$lib/server/respond';
+import { refusalMessage } from '$lib/server/http/respond';
 import { DECISION_LABELS } from '$lib/labels';
-import { redirectWithNotice } from '$lib/server/notice';
+import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

@@ -2,9 +2,9 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { threadMessageSchema } from '$lib/forms/thread';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { listJobPhotos } from '$lib/server/jobs';
-import { refusalFail, refusalMessage } from '$lib/server/respond';
+import { refusalFail, refusalMessage } from '$lib/server/http/respond';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { formatSlotLabel } from '$lib/schedule';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
@@ -12,7 +12,7 @@ import { listQuoteRevisions, submitQuote, withdrawQuote } from '$lib/server/quot
 import { quoteFormSchema, toQuoteInput } from './quote-form';
 import { quoteFormDefaults } from './quote-defaults';
 import { CONTACTS_HIDDEN_NOTE as HIDDEN_NOTE } from '$lib/labels';
-import { redirectWithNotice } from '$lib/server/notice';
+import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = 'There is no such job on your board.';

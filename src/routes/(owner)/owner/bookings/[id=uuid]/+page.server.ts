@@ -2,7 +2,7 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { quoteGstNote } from '$lib/gst';
 import { bookingStatusAt } from '$lib/holds';
 import { getOwnerBooking } from '$lib/server/bookings';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { startHeldFundsPayment } from '$lib/server/payments';
 import { formatSlotLabel } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';

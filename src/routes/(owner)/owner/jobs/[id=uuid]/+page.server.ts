@@ -2,10 +2,10 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { withdrawSchema } from '$lib/forms/job';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { getOwnedJob, listJobPhotos, withdrawJob } from '$lib/server/jobs';
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
-import { refusalMessage } from '$lib/server/respond';
+import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

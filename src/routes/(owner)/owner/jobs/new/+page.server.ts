@@ -1,5 +1,5 @@
 import { redirect } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { createDraftJob } from '$lib/server/jobs';
 import type { Actions, PageServerLoad } from './$types';
 

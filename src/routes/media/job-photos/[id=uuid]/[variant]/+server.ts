@@ -1,8 +1,8 @@
 import { error } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { isQuotingInstaller } from '$lib/server/installers';
 import { findViewableJobPhoto } from '$lib/server/jobs';
-import { missingImageResponse, objectResponse } from '$lib/server/storage';
+import { missingImageResponse, objectResponse } from '$lib/server/files/storage';
 import type { RequestHandler } from './$types';
 
 /** Streams a job photo to those allowed to see it; everyone else gets a 404 (not even existence leaks). */

@@ -2,10 +2,10 @@
 import { error, redirect } from '@sveltejs/kit';
 import type { SuperValidated } from 'sveltekit-superforms';
 import { nextStep, type JobStep } from '$lib/forms/job';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { getOwnedJob, type JobChange } from '$lib/server/jobs';
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
-import { refusalMessage } from '$lib/server/respond';
+import { refusalMessage } from '$lib/server/http/respond';
 
 /** The signed-in owner's job, 404 when it is not theirs, to the job page when it is locked. */
 export async function loadEditableJob(jobId: string) {

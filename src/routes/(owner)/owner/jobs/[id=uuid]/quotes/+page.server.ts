@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { bestFitFormula, priceReferenceCents } from '$lib/ranking';
 import { jobStatusShown, quoteStatusShown } from '$lib/holds';
 import { getLiveBookingForJob } from '$lib/server/bookings';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { listAskingInstallers } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';

@@ -2,9 +2,9 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { photoKindSchema, type PhotoKind } from '$lib/forms/job';
 import { listJobPhotos, setJobPhoto } from '$lib/server/jobs';
 import { loadEditableJob } from '../editable-job';
-import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/form-data';
-import { deleteObject } from '$lib/server/storage';
-import { discardUpload, storeUpload } from '$lib/server/uploads';
+import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/http/form-data';
+import { deleteObject } from '$lib/server/files/storage';
+import { discardUpload, storeUpload } from '$lib/server/files/uploads';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

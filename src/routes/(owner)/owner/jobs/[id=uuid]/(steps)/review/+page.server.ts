@@ -1,5 +1,5 @@
 import { error, fail } from '@sveltejs/kit';
-import { redirectWithNotice } from '$lib/server/notice';
+import { redirectWithNotice } from '$lib/server/http/notice';
 import type { JobStep } from '$lib/forms/job';
 import { computeScope, jobRequestSchema } from '$lib/scope';
 import { draftProblems, postJob } from '$lib/server/jobs';

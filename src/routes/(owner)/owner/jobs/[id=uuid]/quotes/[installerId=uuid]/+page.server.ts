@@ -6,14 +6,14 @@ import { threadMessageSchema } from '$lib/forms/thread';
 import { textField } from '$lib/forms/fields';
 import { jobStatusShown, quoteStatusShown } from '$lib/holds';
 import { bookQuote, getLiveBookingForJob, HOLD_MINUTES } from '$lib/server/bookings';
-import { requireRole } from '$lib/server/guards';
+import { requireRole } from '$lib/server/http/guards';
 import { getOwnedJob } from '$lib/server/jobs';
-import { refusalMessage } from '$lib/server/respond';
+import { refusalMessage } from '$lib/server/http/respond';
 import { formatSlotLabel } from '$lib/schedule';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
 import { CONTACTS_HIDDEN_NOTE } from '$lib/labels';
-import { redirectWithNotice } from '$lib/server/notice';
+import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 import { titleOrUntitled } from '$lib/posted-job';
 

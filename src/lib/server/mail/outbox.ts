@@ -10,10 +10,10 @@
 import { and, eq, isNull, lt, or, sql } from 'drizzle-orm';
 import nodemailer, { type Transporter } from 'nodemailer';
 import { env } from '$env/dynamic/private';
-import { requestEmailDelivery } from './boss';
-import { db, type Tx } from './db';
-import { emailOutbox } from './db/schema';
-import { renderEmail, type EmailTemplate } from './mail-templates';
+import { requestEmailDelivery } from '../boss';
+import { db, type Tx } from '../db';
+import { emailOutbox } from '../db/schema';
+import { renderEmail, type EmailTemplate } from './templates';
 
 /** After this many failed attempts a message stays in the outbox for an admin to look at. */
 export const MAX_DELIVERY_ATTEMPTS = 10;

@@ -4,7 +4,7 @@
  * plain-text part from the same words, in the house layout of mail-layout.ts.
  */
 
-import { renderBlock as render, type RenderedEmail } from './mail-layout';
+import { renderBlock as render, type RenderedEmail } from './layout';
 
 export type MarketplaceEmail =
 	| {

@@ -1,7 +1,7 @@
 import { error, redirect } from '@sveltejs/kit';
 import { getRequestEvent } from '$app/server';
-import type { SessionUser } from './auth';
-import type { Role } from './db/schema';
+import type { SessionUser } from '../auth';
+import type { Role } from '../db/schema';
 
 /** URL areas and who may enter them; checked in hooks for every request, actions included. */
 export const ROLE_AREAS: ReadonlyArray<{ prefix: string; role: Role }> = [

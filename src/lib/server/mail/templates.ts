@@ -2,13 +2,9 @@
  * E-mail templates. Each renders a subject, an HTML part and a plain-text part from the same words,
  * so a message reads the same in any mail client.
  */
-import {
-	isMarketplaceEmail,
-	renderMarketplaceEmail,
-	type MarketplaceEmail
-} from './marketplace-mail';
+import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } from './marketplace';
 
-import { renderBlock, type RenderedEmail } from './mail-layout';
+import { renderBlock, type RenderedEmail } from './layout';
 
 export type { RenderedEmail };
 

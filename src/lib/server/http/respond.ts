@@ -5,7 +5,7 @@
  */
 import { error, fail } from '@sveltejs/kit';
 import { message, setError, type SuperValidated } from 'sveltekit-superforms';
-import { isRefusal, type Refusal } from './refusal';
+import { isRefusal, type Refusal } from '../refusal';
 
 /** The result, or the refusal thrown as an HTTP error. */
 export function orError<T>(result: T | Refusal): T {
