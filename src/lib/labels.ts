@@ -3,8 +3,9 @@
  * every page and in every e-mail; no raw enum value reaches a screen.
  */
 import type { BoardSort } from './board';
-import type { JobStatusValue } from './forms/job';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
+// Types only (erased at build): the database enums are the one list of each status.
+import type { Booking, Job, Quote } from './server/db/schema';
 import type {
 	AdminDecision,
 	ChecklistItem,
@@ -62,7 +63,7 @@ export const QUEUE_SORT_LABELS: Record<QueueSort, string> = {
 	expiry: 'Insurance expiring soonest'
 };
 
-export const JOB_STATUS_LABELS: Record<JobStatusValue, string> = {
+export const JOB_STATUS_LABELS: Record<Job['status'], string> = {
 	drafting: 'Draft',
 	collecting_quotes: 'Open for quotes',
 	booked: 'Booked',
@@ -107,10 +108,7 @@ export function labelOf(labels: Record<string, string>, value: string): string {
 }
 
 /** Where a quote stands, in the words both sides read. */
-export const QUOTE_STATUS_LABELS: Record<
-	'live' | 'accepted' | 'declined' | 'withdrawn' | 'lapsed',
-	string
-> = {
+export const QUOTE_STATUS_LABELS: Record<Quote['status'], string> = {
 	live: 'Open',
 	accepted: 'Booked',
 	declined: 'Not chosen',
@@ -119,10 +117,7 @@ export const QUOTE_STATUS_LABELS: Record<
 };
 
 /** Where a booking stands. */
-export const BOOKING_STATUS_LABELS: Record<
-	'awaiting_payment' | 'confirmed' | 'cancelled' | 'lapsed',
-	string
-> = {
+export const BOOKING_STATUS_LABELS: Record<Booking['status'], string> = {
 	awaiting_payment: 'Held, waiting for payment',
 	confirmed: 'Confirmed',
 	cancelled: 'Cancelled',

@@ -157,14 +157,3 @@ export function preferredDateProblem(date: string, today: string): string | null
 	if (ahead > MAX_DAYS_AHEAD) return `Choose a date within ${MAX_DAYS_AHEAD} days`;
 	return null;
 }
-
-/** Where a job stands; mirrors the `job_status` enum (labels in `$lib/labels`). */
-export const JOB_STATUSES = [
-	'drafting',
-	'collecting_quotes',
-	'booked',
-	'fitted',
-	'settled',
-	'withdrawn'
-] as const;
-export type JobStatusValue = (typeof JOB_STATUSES)[number];
