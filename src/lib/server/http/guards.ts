@@ -42,7 +42,7 @@ export function areaFor(pathname: string) {
 
 /** Where to send a visitor with no session: the sign-in page, returning here afterwards. */
 export function signInUrl(url: URL) {
-	return `/sign-in?redirectTo=${encodeURIComponent(url.pathname + url.search)}`;
+	return `/sign-in?${new URLSearchParams({ redirectTo: url.pathname + url.search }).toString()}`;
 }
 
 /**
