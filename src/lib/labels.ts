@@ -3,7 +3,8 @@
  * every page and in every e-mail; no raw enum value reaches a screen.
  */
 import type { BoardSort } from './board';
-import type { JobStatusValue } from './forms/job';
+import type { JobStatusValue, TimeWindow } from './forms/job';
+import { formatDay } from './time';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 import type {
 	AdminDecision,
@@ -147,3 +148,24 @@ export const WORK_MODE_LABELS: Record<'mobile' | 'workshop', string> = {
 	mobile: 'Mobile (at the owner’s place)',
 	workshop: 'At the installer’s workshop'
 };
+
+/** A preferred time of day in a sentence ('Tue 8 Dec, morning'); the hours are in TIME_WINDOWS. */
+export const TIME_WINDOW_WORDS: Record<TimeWindow, string> = {
+	morning: 'morning',
+	midday: 'middle of the day',
+	afternoon: 'afternoon'
+};
+
+/** A preferred day and time of day the way every page writes it: 'Tue 8 Dec, morning'. */
+export function preferredWindowText(w: { date: string; window: string }, now?: Date): string {
+	return `${formatDay(w.date, undefined, now)}, ${labelOf(TIME_WINDOW_WORDS, w.window)}`;
+}
+
+/** How an installer works, every mode they offer in its label ('—' for none). */
+export function workModesText(p: { offersMobile: boolean; offersWorkshop: boolean }): string {
+	const modes = [
+		p.offersMobile && WORK_MODE_LABELS.mobile,
+		p.offersWorkshop && WORK_MODE_LABELS.workshop
+	];
+	return modes.filter(Boolean).join('; ') || '—';
+}

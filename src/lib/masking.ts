@@ -20,7 +20,7 @@ export type ContactPattern = {
 };
 
 /** Shown in place of anything masked. */
-export const MASK_PLACEHOLDER = '[hidden until booked]';
+export const MASK_PLACEHOLDER = '[contact details hidden]';
 
 // Top-level domains common in Australian messages; bare domains are only masked with one of
 // these, so 'e.g.', '7.5A' and 'file.txt' stay as written.

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
+	formatSlot,
 	candidateSlots,
 	isFree,
 	isWithinWorkingHours,
@@ -276,5 +277,17 @@ describe('validateWeeklyHours', () => {
 			"Saturday: '9am' and '24:00' should be a 24-hour time like 09:00.",
 			'Wednesday: 09:00–12:00 overlaps 11:00–14:00.'
 		]);
+	});
+});
+
+describe('formatSlot', () => {
+	it('writes a slot in the one date style, in the zone', () => {
+		// Source: IANA tz 'australasia': Adelaide is UTC+10:30 in December; 8 Dec 2026 is a Tuesday.
+		const slot = { start: '2026-12-07T22:30:00Z', end: '2026-12-08T01:30:00Z' };
+		const now = new Date('2026-12-02T00:00:00Z');
+		expect(formatSlot(slot, 'Australia/Adelaide', now)).toBe('Tue 8 Dec, 9:00 am – 12:00 pm');
+		expect(formatSlot(slot, 'Australia/Adelaide', new Date('2025-06-01T00:00:00Z'))).toBe(
+			'Tue 8 Dec 2026, 9:00 am – 12:00 pm'
+		);
 	});
 });

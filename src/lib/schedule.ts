@@ -4,7 +4,7 @@
  * localToUtc, so daylight-saving days come out right: on the spring-forward day a 9-hour block
  * holds 8 real hours of slots, on the fall-back day 10.
  */
-import { formatInZone, localToUtc } from './time';
+import { formatDayTime, formatInZone, localToUtc } from './time';
 
 /** 0 = Sunday … 6 = Saturday, as JavaScript's Date counts them. */
 export type Weekday = 0 | 1 | 2 | 3 | 4 | 5 | 6;
@@ -215,9 +215,16 @@ function assertInterval(slot: Interval): void {
 		throw new RangeError('A slot must end after it starts');
 	}
 }
-/** A slot as the installer's local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. */
-export function formatSlot(slot: { start: string; end: string }, timeZone: string): string {
+/**
+ * A slot in the zone's local time, in the one date style: 'Wed 3 Jun, 9:00 am – 11:00 am'
+ * (the year added when it is not this year).
+ */
+export function formatSlot(
+	slot: { start: string; end: string },
+	timeZone: string,
+	now: Date = new Date()
+): string {
 	const start = new Date(slot.start);
 	const end = new Date(slot.end);
-	return `${formatInZone(start, timeZone, 'EEE d MMM, h:mm a')} – ${formatInZone(end, timeZone, 'h:mm a')}`;
+	return `${formatDayTime(start, timeZone, now)} – ${formatInZone(end, timeZone, 'h:mm a').toLowerCase()}`;
 }

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { DEFAULT_TIME_ZONE, formatInZone, localToUtc, utcOffsetMinutes } from './time';
+import {
+	DEFAULT_TIME_ZONE,
+	formatDay,
+	formatDayTime,
+	formatInZone,
+	localToUtc,
+	utcOffsetMinutes
+} from './time';
 
 // Facts below come from the IANA tz database, 'australasia' file, zone Australia/Adelaide with
 // rule 'AS': standard time UTC+9:30, daylight time UTC+10:30 from the first Sunday of October
@@ -98,5 +105,27 @@ describe('formatInZone', () => {
 		expect(formatInZone(new Date('2026-01-01T00:00:00Z'), 'UTC', 'yyyy-MM-dd HH:mm')).toBe(
 			'2026-01-01 00:00'
 		);
+	});
+});
+
+describe('formatDay and formatDayTime: one date style for people', () => {
+	// Calendar facts (from memory, checkable on any calendar): 8 Dec 2026 is a Tuesday,
+	// 5 Jan 2027 a Tuesday.
+	const now = new Date('2026-12-02T00:00:00Z');
+
+	it('leaves the year out for this year and writes it for any other', () => {
+		expect(formatDay('2026-12-08', ZONE, now)).toBe('Tue 8 Dec');
+		expect(formatDay('2027-01-05', ZONE, now)).toBe('Tue 5 Jan 2027');
+	});
+
+	it('reads an instant in the zone: 20:00 UTC on 7 Dec is already the 8th in Adelaide', () => {
+		// Source: IANA tz 'australasia', Adelaide is UTC+10:30 in December.
+		expect(formatDay(new Date('2026-12-07T20:00:00Z'), ZONE, now)).toBe('Tue 8 Dec');
+		expect(formatDayTime(new Date('2026-12-07T20:00:00Z'), ZONE, now)).toBe('Tue 8 Dec, 6:30 am');
+	});
+
+	it('says "this year" by the zone: 31 Dec 14:00 UTC is New Year in Adelaide', () => {
+		const newYearInAdelaide = new Date('2026-12-31T14:00:00Z');
+		expect(formatDay('2027-01-05', ZONE, newYearInAdelaide)).toBe('Tue 5 Jan');
 	});
 });

@@ -1,4 +1,5 @@
 import sharp from 'sharp';
+import { formatDay } from '../../src/lib/time';
 import { expect, test } from './fixtures';
 
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10);
@@ -80,7 +81,8 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 	await page.getByRole('link', { name: '← My jobs' }).click();
 	const row = page.getByTestId('my-jobs').getByRole('row', { name: /2019 Demo Tourer/ });
 	await expect(row).toContainText('Open for quotes');
-	await expect(row).toContainText(inDays(5));
+	// The first preferred date, in the one date style people read ('Mon 7 Dec').
+	await expect(row).toContainText(formatDay(inDays(5)));
 
 	// My jobs sorts from its headers: newest started first, then the other way round.
 	const started = page.getByTestId('my-jobs').getByRole('columnheader', { name: 'Started' });
@@ -98,7 +100,7 @@ test('a step refuses bad input with messages, and another owner cannot open the 
 	await page.getByLabel('Year').fill('99');
 	await page.getByRole('button', { name: 'Save and continue' }).click();
 	await expect(page.getByText('Enter the make')).toBeVisible();
-	await expect(page.getByText('Enter the year as four digits, e.g. 2018')).toBeVisible();
+	await expect(page.getByText('Enter a year from 1900 to 2099, e.g. 2018')).toBeVisible();
 	await expect(page.getByText('Choose a body style')).toBeVisible();
 	// A select with nothing valid chosen reads "Choose…" after the refusal and is marked invalid.
 	const bodyStyle = page.getByLabel('Body style');

@@ -30,7 +30,7 @@ async function sendQuote(page: Page, labour: string) {
 	await expect(form.getByLabel('Time 2: date')).not.toHaveValue('');
 	await form.getByRole('button', { name: 'Send the quote' }).click();
 	await expect(page.getByText(/Quote sent \(revision 1\)/)).toBeVisible();
-	await expect(page.getByTestId('my-quote-status')).toContainText('live');
+	await expect(page.getByTestId('my-quote-status')).toContainText('Open');
 }
 
 async function installerPage(browser: Browser, email: string) {
@@ -54,7 +54,7 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await demo.getByLabel('Ask the owner').fill('Is the car garaged? Call me on 0412 345 678');
 	await demo.getByRole('button', { name: 'Send', exact: true }).click();
 	await expect(demo.getByTestId('thread')).toContainText(
-		'Is the car garaged? Call me on [hidden until booked]'
+		'Is the car garaged? Call me on [contact details hidden]'
 	);
 
 	// A second vetted installer whose circle covers the job (Prospect, 20 km) quotes too.
@@ -93,7 +93,7 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 
 	const demoRow = owner.getByTestId('quote-row').filter({ hasText: 'Fuse & Fettle' });
 	await demoRow.getByRole('link', { name: 'Details and booking' }).click();
-	await expect(owner.getByTestId('thread')).toContainText('[hidden until booked]');
+	await expect(owner.getByTestId('thread')).toContainText('[contact details hidden]');
 	// The owner answers in the same thread; an empty answer is refused first.
 	const questions = owner.locator('#questions');
 	await questions.getByRole('button', { name: 'Send', exact: true }).click();
@@ -114,7 +114,7 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 
 	// The other installer's quote shows declined, and they got a polite e-mail.
 	await ruth.reload();
-	await expect(ruth.getByTestId('my-quote-status')).toContainText('declined');
+	await expect(ruth.getByTestId('my-quote-status')).toContainText('Not chosen');
 	const declined = await waitForMail(RUTH, /went to another installer/);
 	expect(declined.text).toContain('Thanks for quoting');
 
