@@ -74,6 +74,9 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	const owner = await installerPage(browser, DEMO.owner);
 	await waitForMail(DEMO.owner, /quotes? for your 2018 Demo Hatch/);
 	await owner.getByRole('link', { name: JOB }).first().click();
+	// Quotes are in, so the details are locked, and the page says why.
+	await expect(owner.getByRole('link', { name: 'Edit details' })).toHaveCount(0);
+	await expect(owner.getByTestId('edit-locked')).toContainText('installers have quoted');
 	await owner.getByRole('link', { name: /Compare quotes \(2\)/ }).click();
 	await expect(owner.getByRole('heading', { name: 'Compare quotes' })).toBeVisible();
 	await expect(owner.getByTestId('quote-row')).toHaveCount(2);
@@ -111,6 +114,13 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	);
 	await owner.getByRole('button', { name: 'Pay into held funds' }).click();
 	await expect(owner.getByRole('alert')).toContainText('Payment into held funds is not open yet');
+
+	// The job's own page says Booked and leads to the booking.
+	const bookingPath = new URL(owner.url()).pathname;
+	const quotesHref = await owner.getByRole('link', { name: /Quotes for/ }).getAttribute('href');
+	await owner.goto(quotesHref!.replace(/\/quotes$/, ''));
+	await expect(owner.getByTestId('job-status')).toHaveText('Booked');
+	await expect(owner.getByTestId('booking-link')).toHaveAttribute('href', bookingPath);
 
 	// The other installer's quote shows declined, and they got a polite e-mail.
 	await ruth.reload();
