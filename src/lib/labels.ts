@@ -143,6 +143,18 @@ export const VETTING_ACTION_LABELS: Record<VettingAction | 'insurance-updated', 
 	'insurance-updated': 'Insurance details changed'
 };
 
+/** Where the owner's car is fitted, in the owner's words. */
+export const FIT_PLACE_LABELS: Record<'mobile' | 'workshop', string> = {
+	mobile: 'At your place',
+	workshop: 'At the installer’s workshop'
+};
+
+/** Who brings the camera to a fit. */
+export const CAMERA_SUPPLY_LABELS: Record<'owner' | 'installer', string> = {
+	owner: 'I supply the camera',
+	installer: 'The installer supplies the camera'
+};
+
 /** How an installer works, or where a job is fitted. */
 export const WORK_MODE_LABELS: Record<'mobile' | 'workshop', string> = {
 	mobile: 'Mobile (at the owner’s place)',

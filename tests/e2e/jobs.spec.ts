@@ -64,11 +64,24 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 
 	await page.getByRole('button', { name: 'Continue to review' }).click();
 	await expect(page.getByRole('heading', { name: 'Review your scope sheet' })).toBeVisible();
+	// What the owner entered sits above the sheet, each part with a way back to change it.
+	const entered = page.getByTestId('entered-details');
+	await expect(entered.getByTestId('entered-vehicle')).toContainText('2019');
+	await expect(entered.getByTestId('entered-vehicle')).toContainText('Tourer');
+	await expect(entered.getByTestId('entered-dates')).toContainText(formatDay(inDays(5)));
+	await expect(entered.getByTestId('entered-photos').getByRole('img')).not.toHaveCount(0);
+	await expect(entered.getByRole('link', { name: 'Change Power' })).toHaveAttribute(
+		'href',
+		'./power'
+	);
 	const sheet = page.getByTestId('scope-sheet');
 	await expect(sheet.getByRole('heading', { name: 'Labour' })).toBeVisible();
 	await expect(sheet.getByText(/2 × Fuse tap, mini blade/i)).toBeVisible();
 	await expect(sheet.getByTestId('parking-hours')).toContainText('hours');
 	await expect(sheet.getByText(/airbag/i).first()).toBeVisible();
+	// The sentence on local rules is said once, above the list of cautions.
+	await expect(sheet.getByText(/local road rules/)).toHaveCount(1);
+	await expect(sheet.getByTestId('cautions-rule')).toContainText('local road rules');
 	await expect(sheet.getByTestId('price-range')).toContainText('$');
 
 	await page.screenshot({ path: testInfo.outputPath('review.png'), fullPage: true });
