@@ -193,3 +193,16 @@ test('documents are refused to owners, other installers and anonymous visitors',
 	await Promise.all([owner, other, admin].map((p) => p.context().close()));
 	await anonymous.close();
 });
+
+test('the vetted demo installer is not told documents are missing', async ({
+	installerPage: page
+}) => {
+	await page.goto('/installer');
+	await expect(page.getByTestId('vetted-badge')).toBeVisible();
+	await expect(page.getByTestId('missing')).toHaveCount(0);
+	await page.goto('/installer/documents');
+	await expect(page.getByTestId('my-documents')).toContainText(
+		'Public liability insurance certificate'
+	);
+	await expect(page.getByTestId('my-documents')).toContainText('Photo ID');
+});
