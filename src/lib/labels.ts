@@ -124,10 +124,10 @@ export const BOOKING_STATUS_LABELS: Record<
 	'awaiting_payment' | 'confirmed' | 'cancelled' | 'lapsed',
 	string
 > = {
-	awaiting_payment: 'Held, waiting for payment',
+	awaiting_payment: 'Provisional: waiting for payment',
 	confirmed: 'Confirmed',
 	cancelled: 'Cancelled',
-	lapsed: 'Hold ran out'
+	lapsed: 'Lapsed: the hold ran out'
 };
 
 /** What happened in an installer's vetting history, as an audit line. */
