@@ -11,9 +11,10 @@ import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as jobForms from '$lib/forms/job';
 import * as vettingForms from '$lib/forms/vetting';
 import * as jobRequest from '$lib/scope/request';
+import * as threadForms from '$lib/forms/thread';
 import * as quoteForms from '../../src/routes/(installer)/installer/jobs/[id=uuid]/quote-form';
 
-const MODULES = { authForms, jobForms, vettingForms, jobRequest, quoteForms };
+const MODULES = { authForms, jobForms, vettingForms, jobRequest, quoteForms, threadForms };
 
 const schemas = Object.entries(MODULES).flatMap(([module, exports]) =>
 	Object.entries(exports)
@@ -54,7 +55,7 @@ describe('every free-text field refuses NUL characters', () => {
 				'jobForms.placeStepSchema.addressLine',
 				'jobRequest.jobRequestSchema.model',
 				'vettingForms.decisionSchema.message',
-				'quoteForms.askSchema.body'
+				'threadForms.threadMessageSchema.body'
 			])
 		);
 	});
