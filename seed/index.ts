@@ -5,7 +5,13 @@
 import { count } from 'drizzle-orm';
 import { drizzle } from 'drizzle-orm/node-postgres';
 import pg from 'pg';
-import { installerHours, installerProfile, user, vettingEvent } from '../src/lib/server/db/schema';
+import {
+	installerDocument,
+	installerHours,
+	installerProfile,
+	user,
+	vettingEvent
+} from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/password';
 import { seedDemoJobs } from './jobs';
 import {
@@ -14,6 +20,7 @@ import {
 	DEMO_OWNERS,
 	DEMO_PASSWORD,
 	demoInstallerDetails,
+	demoVettingDocuments,
 	demoWeeklyHours,
 	suburbPoint
 } from './scenario';
@@ -77,6 +84,10 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 				await tx
 					.insert(installerHours)
 					.values(demoWeeklyHours(index).map((h) => ({ installerId: id, ...h })));
+				// Every demo application was sent, so each has what sending requires.
+				await tx
+					.insert(installerDocument)
+					.values(demoVettingDocuments(id).map((d) => ({ ...d, installerId: id })));
 				await tx.insert(vettingEvent).values(demoTrail(id, adminId, i.status, submittedAt));
 			}
 		});

@@ -234,3 +234,28 @@ export function demoWeeklyHours(index: number) {
 		? [...weekdays, { weekday: 6, startMinute: 9 * 60, endMinute: 13 * 60 }]
 		: weekdays;
 }
+
+/**
+ * The documents an application needs before it can be sent (and an admin can approve it): an
+ * insurance certificate and photo ID (src/lib/vetting.ts, missingParts and approvalProblems).
+ * The rows name objects under `demo/`; the object store does not hold them when the seed runs
+ * (it runs before the local fakes), so opening one answers 404 like any missing file.
+ */
+export function demoVettingDocuments(installerId: string) {
+	return [
+		{
+			kind: 'insurance' as const,
+			objectKey: `demo/installer-documents/${installerId}/insurance-certificate.pdf`,
+			contentType: 'application/pdf',
+			bytes: 48_213,
+			originalName: 'insurance-certificate.pdf'
+		},
+		{
+			kind: 'photo-id' as const,
+			objectKey: `demo/installer-documents/${installerId}/photo-id.jpg`,
+			contentType: 'image/jpeg',
+			bytes: 231_877,
+			originalName: 'photo-id.jpg'
+		}
+	];
+}

@@ -3,6 +3,8 @@
  * every page and in every e-mail; no raw enum value reaches a screen.
  */
 import type { BoardSort } from './board';
+import type { TimeWindow } from './forms/job';
+import { formatDay } from './time';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 // Types only (erased at build): the database enums are the one list of each status.
 import type { Booking, Job, Quote } from './server/db/schema';
@@ -118,10 +120,10 @@ export const QUOTE_STATUS_LABELS: Record<Quote['status'], string> = {
 
 /** Where a booking stands. */
 export const BOOKING_STATUS_LABELS: Record<Booking['status'], string> = {
-	awaiting_payment: 'Held, waiting for payment',
+	awaiting_payment: 'Provisional: waiting for payment',
 	confirmed: 'Confirmed',
 	cancelled: 'Cancelled',
-	lapsed: 'Hold ran out'
+	lapsed: 'Lapsed: the hold ran out'
 };
 
 /** What happened in an installer's vetting history, as an audit line. */
@@ -137,6 +139,18 @@ export const VETTING_ACTION_LABELS: Record<VettingAction | 'insurance-updated', 
 	'insurance-updated': 'Insurance details changed'
 };
 
+/** Where the owner's car is fitted, in the owner's words. */
+export const FIT_PLACE_LABELS: Record<'mobile' | 'workshop', string> = {
+	mobile: 'At your place',
+	workshop: 'At the installer’s workshop'
+};
+
+/** Who brings the camera to a fit. */
+export const CAMERA_SUPPLY_LABELS: Record<'owner' | 'installer', string> = {
+	owner: 'I supply the camera',
+	installer: 'The installer supplies the camera'
+};
+
 /** How an installer works, or where a job is fitted. */
 export const WORK_MODE_LABELS: Record<'mobile' | 'workshop', string> = {
 	mobile: 'Mobile (at the owner’s place)',
@@ -149,3 +163,24 @@ export const WORK_MODE_LABELS: Record<'mobile' | 'workshop', string> = {
  */
 export const CONTACTS_HIDDEN_NOTE =
 	'Phone numbers, e-mail addresses and links in it were hidden: Tapline hides contact details until the owner books. Messages sent after booking are not hidden.';
+
+/** A preferred time of day in a sentence ('Tue 8 Dec, morning'); the hours are in TIME_WINDOWS. */
+export const TIME_WINDOW_WORDS: Record<TimeWindow, string> = {
+	morning: 'morning',
+	midday: 'middle of the day',
+	afternoon: 'afternoon'
+};
+
+/** A preferred day and time of day the way every page writes it: 'Tue 8 Dec, morning'. */
+export function preferredWindowText(w: { date: string; window: string }, now?: Date): string {
+	return `${formatDay(w.date, undefined, now)}, ${labelOf(TIME_WINDOW_WORDS, w.window)}`;
+}
+
+/** How an installer works, every mode they offer in its label ('—' for none). */
+export function workModesText(p: { offersMobile: boolean; offersWorkshop: boolean }): string {
+	const modes = [
+		p.offersMobile && WORK_MODE_LABELS.mobile,
+		p.offersWorkshop && WORK_MODE_LABELS.workshop
+	];
+	return modes.filter(Boolean).join('; ') || '—';
+}

@@ -35,7 +35,7 @@ export type ContactPattern = {
 };
 
 /** Shown in place of anything masked. */
-export const MASK_PLACEHOLDER = '[hidden until booked]';
+export const MASK_PLACEHOLDER = '[contact details hidden]';
 
 /**
  * Longest message masked, in characters: Tapline's bound, five times the longest message a form

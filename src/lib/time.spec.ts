@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import {
 	DEFAULT_TIME_ZONE,
 	describeClockChange,
+	formatDay,
+	formatDayTime,
 	formatInZone,
 	isRepeatedWallTime,
 	localToUtc,
@@ -177,5 +179,27 @@ describe('describeClockChange', () => {
 			'On Sun 5 Apr 2026 the clocks in Australia/Lord_Howe went back 30 minutes at 2:00 am ' +
 				'(LHDT) to 1:30 am (LHST), so 1:45 am happened twice: first on LHDT, then on LHST.'
 		);
+	});
+});
+
+describe('formatDay and formatDayTime: one date style for people', () => {
+	// Calendar facts (from memory, checkable on any calendar): 8 Dec 2026 is a Tuesday,
+	// 5 Jan 2027 a Tuesday.
+	const now = new Date('2026-12-02T00:00:00Z');
+
+	it('leaves the year out for this year and writes it for any other', () => {
+		expect(formatDay('2026-12-08', ZONE, now)).toBe('Tue 8 Dec');
+		expect(formatDay('2027-01-05', ZONE, now)).toBe('Tue 5 Jan 2027');
+	});
+
+	it('reads an instant in the zone: 20:00 UTC on 7 Dec is already the 8th in Adelaide', () => {
+		// Source: IANA tz 'australasia', Adelaide is UTC+10:30 in December.
+		expect(formatDay(new Date('2026-12-07T20:00:00Z'), ZONE, now)).toBe('Tue 8 Dec');
+		expect(formatDayTime(new Date('2026-12-07T20:00:00Z'), ZONE, now)).toBe('Tue 8 Dec, 6:30 am');
+	});
+
+	it('says "this year" by the zone: 31 Dec 14:00 UTC is New Year in Adelaide', () => {
+		const newYearInAdelaide = new Date('2026-12-31T14:00:00Z');
+		expect(formatDay('2027-01-05', ZONE, newYearInAdelaide)).toBe('Tue 5 Jan');
 	});
 });

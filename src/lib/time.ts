@@ -237,3 +237,38 @@ function wallTimeWords(timeStr: string): string {
 function lowerMeridiem(text: string): string {
 	return text.replace('AM', 'am').replace('PM', 'pm');
 }
+
+/** Calendar dates ('YYYY-MM-DD') carry no zone: they are read and printed as UTC days. */
+const CALENDAR_ZONE = 'UTC';
+
+/**
+ * A day as people read it on every Tapline page and e-mail: 'Tue 8 Dec', with the year when it
+ * is not this year ('Tue 8 Dec 2027').
+ * @param day a calendar date 'YYYY-MM-DD', or an instant shown in `zone`
+ * @param zone IANA zone an instant is shown in (and whose calendar says what "this year" is)
+ * @param now the present, for the year rule
+ */
+export function formatDay(
+	day: string | Date,
+	zone: string = DEFAULT_TIME_ZONE,
+	now: Date = new Date()
+): string {
+	const [instant, shownIn] =
+		typeof day === 'string' ? [new Date(`${day}T00:00:00Z`), CALENDAR_ZONE] : [day, zone];
+	const sameYear = formatInZone(instant, shownIn, 'yyyy') === formatInZone(now, zone, 'yyyy');
+	return formatInZone(instant, shownIn, sameYear ? 'EEE d MMM' : 'EEE d MMM yyyy');
+}
+
+/**
+ * A moment as people read it: 'Tue 8 Dec, 2:30 pm' (year as in {@link formatDay}).
+ * @param instant the moment
+ * @param zone IANA zone it is shown in
+ * @param now the present, for the year rule
+ */
+export function formatDayTime(
+	instant: Date,
+	zone: string = DEFAULT_TIME_ZONE,
+	now: Date = new Date()
+): string {
+	return `${formatDay(instant, zone, now)}, ${formatInZone(instant, zone, 'h:mm a').toLowerCase()}`;
+}

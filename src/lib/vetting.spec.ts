@@ -17,7 +17,8 @@ import {
 	VETTING_STATUSES,
 	type ApplicationFacts,
 	type VettingAction,
-	type VettingStage
+	type VettingStage,
+	mayRemoveDocument
 } from './vetting';
 
 // Australia/Adelaide facts from the IANA tz database ('australasia', rule AS): UTC+9:30 standard,
@@ -283,5 +284,16 @@ describe('expiryStep', () => {
 		});
 		expect(isInsuranceLapsed('2026-10-11', '2026-10-12')).toBe(true);
 		expect(isInsuranceLapsed('2026-10-11', '2026-10-10')).toBe(false);
+	});
+});
+
+describe('mayRemoveDocument', () => {
+	it('lets vetting documents go only before sending or while an admin waits on the installer', () => {
+		// Source: the product rule in src/lib/vetting.ts (an application an admin read keeps its documents).
+		expect(mayRemoveDocument('insurance', 'draft')).toBe(true);
+		expect(mayRemoveDocument('photo-id', 'waiting_on_installer')).toBe(true);
+		expect(mayRemoveDocument('insurance', 'applied')).toBe(false);
+		expect(mayRemoveDocument('photo-id', 'approved')).toBe(false);
+		expect(mayRemoveDocument('gallery', 'approved')).toBe(true);
 	});
 });

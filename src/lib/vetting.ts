@@ -339,3 +339,12 @@ export function canViewInstallerDocument(
 /** Orders of the admin queue (labels in `$lib/labels`). */
 export const QUEUE_SORTS = ['oldest', 'newest', 'name', 'expiry'] as const;
 export type QueueSort = (typeof QUEUE_SORTS)[number];
+
+/**
+ * Whether an installer may remove one of their documents. Gallery photos may go at any time;
+ * vetting documents only before the application is sent or while an admin waits on the
+ * installer, since an application an admin has read or decided on keeps what was checked.
+ */
+export function mayRemoveDocument(kind: DocumentKind, stage: VettingStage): boolean {
+	return kind === 'gallery' || stage === 'draft' || stage === 'waiting_on_installer';
+}

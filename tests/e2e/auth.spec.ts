@@ -22,6 +22,9 @@ test('an owner signs up, confirms the e-mail through the inbox, signs out and ba
 	await page.getByRole('button', { name: 'Confirm my address' }).click();
 	await expect(page.getByText('Your e-mail address is confirmed')).toBeVisible();
 	await expect(page.getByText('Please confirm your e-mail address')).toHaveCount(0);
+	// The way on leads to the owner's own page, not back to the landing page.
+	await page.getByRole('link', { name: 'Continue to My jobs' }).click();
+	await expect(page).toHaveURL(/\/owner$/);
 
 	await page.getByRole('button', { name: 'Sign out' }).click();
 	await expect(page.getByRole('link', { name: 'Sign in' })).toBeVisible();

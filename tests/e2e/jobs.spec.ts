@@ -1,4 +1,5 @@
 import sharp from 'sharp';
+import { formatDay } from '../../src/lib/time';
 import { expect, test } from './fixtures';
 
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10);
@@ -69,6 +70,16 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 
 	await page.getByRole('button', { name: 'Continue to review' }).click();
 	await expect(page.getByRole('heading', { name: 'Review your scope sheet' })).toBeVisible();
+	// What the owner entered sits above the sheet, each part with a way back to change it.
+	const entered = page.getByTestId('entered-details');
+	await expect(entered.getByTestId('entered-vehicle')).toContainText('2019');
+	await expect(entered.getByTestId('entered-vehicle')).toContainText('Tourer');
+	await expect(entered.getByTestId('entered-dates')).toContainText(formatDay(inDays(5)));
+	await expect(entered.getByTestId('entered-photos').getByRole('img')).not.toHaveCount(0);
+	await expect(entered.getByRole('link', { name: 'Change Power' })).toHaveAttribute(
+		'href',
+		'./power'
+	);
 	const sheet = page.getByTestId('scope-sheet');
 	await expect(sheet.getByRole('heading', { name: 'Labour' })).toBeVisible();
 	await expect(sheet.getByText(/2 × Fuse tap, mini blade/i)).toBeVisible();
@@ -82,6 +93,9 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 	await expect(assumptions).toContainText('derived by Tapline');
 	await expect(assumptions).toContainText('below the resting voltage');
 	await expect(sheet.getByText(/airbag/i).first()).toBeVisible();
+	// The sentence on local rules is said once, above the list of cautions.
+	await expect(sheet.getByText(/local road rules/)).toHaveCount(1);
+	await expect(sheet.getByTestId('cautions-rule')).toContainText('local road rules');
 	await expect(sheet.getByTestId('price-range')).toContainText('$');
 
 	await page.screenshot({ path: testInfo.outputPath('review.png'), fullPage: true });
@@ -94,7 +108,8 @@ test('an owner posts a front + rear parking-mode job with a photo and reads the 
 	await page.getByRole('link', { name: '← My jobs' }).click();
 	const row = page.getByTestId('my-jobs').getByRole('row', { name: /2019 Demo Tourer/ });
 	await expect(row).toContainText('Open for quotes');
-	await expect(row).toContainText(inDays(5));
+	// The first preferred date, in the one date style people read ('Mon 7 Dec').
+	await expect(row).toContainText(formatDay(inDays(5)));
 
 	// My jobs sorts from its headers: newest started first, then the other way round.
 	const started = page.getByTestId('my-jobs').getByRole('columnheader', { name: 'Started' });
@@ -112,7 +127,7 @@ test('a step refuses bad input with messages, and another owner cannot open the 
 	await page.getByLabel('Year').fill('99');
 	await page.getByRole('button', { name: 'Save and continue' }).click();
 	await expect(page.getByText('Enter the make')).toBeVisible();
-	await expect(page.getByText('Enter the year as four digits, e.g. 2018')).toBeVisible();
+	await expect(page.getByText('Enter a year from 1900 to 2099, e.g. 2018')).toBeVisible();
 	await expect(page.getByText('Choose a body style')).toBeVisible();
 	// A select with nothing valid chosen reads "Choose…" after the refusal and is marked invalid.
 	const bodyStyle = page.getByLabel('Body style');

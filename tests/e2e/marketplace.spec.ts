@@ -31,7 +31,7 @@ async function sendQuote(page: Page, labour: string) {
 	await expect(form.getByLabel('Time 2: date')).not.toHaveValue('');
 	await form.getByRole('button', { name: 'Send the quote' }).click();
 	await expect(page.getByText(/Quote sent \(revision 1\)/)).toBeVisible();
-	await expect(page.getByTestId('my-quote-status')).toContainText('live');
+	await expect(page.getByTestId('my-quote-status')).toContainText('Open');
 }
 
 async function installerPage(browser: Browser, email: string) {
@@ -55,7 +55,7 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await demo.getByLabel('Ask the owner').fill('Is the car garaged? Call me on 0412 345 678');
 	await demo.getByRole('button', { name: 'Send', exact: true }).click();
 	await expect(demo.getByTestId('thread')).toContainText(
-		'Is the car garaged? Call me on [hidden until booked]'
+		'Is the car garaged? Call me on [contact details hidden]'
 	);
 
 	// A second vetted installer whose circle covers the job (Prospect, 20 km) quotes too.
@@ -80,6 +80,9 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	const owner = await installerPage(browser, DEMO.owner);
 	await waitForMail(DEMO.owner, /quotes? for your 2018 Demo Hatch/);
 	await owner.getByRole('link', { name: JOB }).first().click();
+	// Quotes are in, so the details are locked, and the page says why.
+	await expect(owner.getByRole('link', { name: 'Edit details' })).toHaveCount(0);
+	await expect(owner.getByTestId('edit-locked')).toContainText('installers have quoted');
 	await owner.getByRole('link', { name: /Compare quotes \(2\)/ }).click();
 	await expect(owner.getByRole('heading', { name: 'Compare quotes' })).toBeVisible();
 	await expect(owner.getByTestId('quote-row')).toHaveCount(2);
@@ -119,7 +122,7 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 
 	const demoRow = owner.getByTestId('quote-row').filter({ hasText: 'Fuse & Fettle' });
 	await demoRow.getByRole('link', { name: 'Details and booking' }).click();
-	await expect(owner.getByTestId('thread')).toContainText('[hidden until booked]');
+	await expect(owner.getByTestId('thread')).toContainText('[contact details hidden]');
 	// The owner answers in the same thread; an empty answer is refused first.
 	const questions = owner.locator('#questions');
 	await questions.getByRole('button', { name: 'Send', exact: true }).click();
@@ -143,9 +146,16 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await owner.getByRole('button', { name: 'Pay into held funds' }).click();
 	await expect(owner.getByRole('alert')).toContainText('Payment into held funds is not open yet');
 
+	// The job's own page says Booked and leads to the booking.
+	const bookingPath = new URL(owner.url()).pathname;
+	const quotesHref = await owner.getByRole('link', { name: /Quotes for/ }).getAttribute('href');
+	await owner.goto(quotesHref!.replace(/\/quotes$/, ''));
+	await expect(owner.getByTestId('job-status')).toHaveText('Booked');
+	await expect(owner.getByTestId('booking-link')).toHaveAttribute('href', bookingPath);
+
 	// The other installer's quote shows declined, and they got a polite e-mail.
 	await ruth.reload();
-	await expect(ruth.getByTestId('my-quote-status')).toContainText('declined');
+	await expect(ruth.getByTestId('my-quote-status')).toContainText('Not chosen');
 	const declined = await waitForMail(RUTH, /went to another installer/);
 	expect(declined.text).toContain('Thanks for quoting');
 

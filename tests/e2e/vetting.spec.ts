@@ -79,6 +79,23 @@ test('an installer applies, an admin asks for more, then approves; e-mails arriv
 		PDF
 	);
 	await upload(page, 'Photo ID', 'licence.png', 'image/png', PNG);
+	// A file uploaded by mistake can be removed, after a confirmation.
+	await upload(
+		page,
+		'Electrical or auto-electrical qualification',
+		'wrong-file.png',
+		'image/png',
+		PNG
+	);
+	const wrong = page.getByTestId('my-documents').getByRole('listitem').filter({
+		hasText: 'wrong-file.png'
+	});
+	await wrong.getByText('Remove…').click();
+	await wrong.getByLabel('Yes, remove wrong-file.png').check();
+	await wrong.getByRole('button', { name: 'Remove' }).click();
+	await expect(page.getByText('Removed wrong-file.png.')).toBeVisible();
+	await expect(page.getByTestId('my-documents')).not.toContainText('wrong-file.png');
+	await expect(page.getByTestId('my-documents')).toContainText('licence.png');
 
 	// Hours, then send.
 	await page.goto('/installer/hours');
@@ -90,6 +107,11 @@ test('an installer applies, an admin asks for more, then approves; e-mails arriv
 	await expect(page.getByTestId('missing')).toHaveCount(0);
 	await page.getByRole('button', { name: 'Send my application' }).click();
 	await expect(page.getByTestId('vetting-standing')).toHaveText('Application in the queue');
+	// Once sent, the documents an admin will check stay.
+	await page.goto('/installer/documents');
+	await expect(page.getByTestId('my-documents')).toContainText('certificate.pdf');
+	await expect(page.getByTestId('my-documents').getByText('Remove…')).toHaveCount(0);
+	await page.goto('/installer');
 	await waitForMail(email, /We have your installer application/);
 
 	// The admin finds it in the queue and asks for more.
@@ -198,4 +220,17 @@ test('documents are refused to owners, other installers and anonymous visitors',
 	expect((await admin.request.get(href)).status()).toBe(200);
 	await Promise.all([owner, other, admin].map((p) => p.context().close()));
 	await anonymous.close();
+});
+
+test('the vetted demo installer is not told documents are missing', async ({
+	installerPage: page
+}) => {
+	await page.goto('/installer');
+	await expect(page.getByTestId('vetted-badge')).toBeVisible();
+	await expect(page.getByTestId('missing')).toHaveCount(0);
+	await page.goto('/installer/documents');
+	await expect(page.getByTestId('my-documents')).toContainText(
+		'Public liability insurance certificate'
+	);
+	await expect(page.getByTestId('my-documents')).toContainText('Photo ID');
 });

@@ -110,7 +110,7 @@ describe('job drafts', () => {
 		expect(result).toMatchObject({
 			ok: false,
 			status: 400,
-			fields: { place: 'Preferred dates: choose a date from tomorrow on' }
+			fields: { place: 'Preferred dates: choose a date after today' }
 		});
 	});
 

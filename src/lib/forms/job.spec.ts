@@ -45,7 +45,7 @@ describe('job request steps', () => {
 		});
 		expect(messages(bad)).toMatchObject({
 			make: 'Enter the make',
-			year: 'Enter the year as four digits, e.g. 2018',
+			year: 'Enter a year from 1900 to 2099, e.g. 2018',
 			bodyStyle: 'Choose a body style',
 			fuseFamily: "Choose the fuse type, or 'not sure'",
 			batteryAh: 'Battery capacity is usually between 20 and 200 Ah'
@@ -102,7 +102,7 @@ describe('job request steps', () => {
 describe('preferredDateProblem', () => {
 	it('accepts tomorrow up to 90 days ahead, in local calendar days', () => {
 		expect(preferredDateProblem('2026-12-03', '2026-12-02')).toBeNull();
-		expect(preferredDateProblem('2026-12-02', '2026-12-02')).toBe('Choose a date from tomorrow on');
+		expect(preferredDateProblem('2026-12-02', '2026-12-02')).toBe('Choose a date after today');
 		// 2 Dec 2026 + 90 days = 2 Mar 2027 (31 Dec, 31 Jan, 28 Feb: 29 + 31 + 28 + 2 = 90), worked by hand.
 		expect(preferredDateProblem('2027-03-02', '2026-12-02')).toBeNull();
 		expect(preferredDateProblem('2027-03-03', '2026-12-02')).toBe('Choose a date within 90 days');

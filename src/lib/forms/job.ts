@@ -153,7 +153,7 @@ export function preferredDateProblem(date: string, today: string): string | null
 	const base = Date.parse(`${today}T00:00:00Z`);
 	if (Number.isNaN(day)) return 'Choose a real date';
 	const ahead = Math.round((day - base) / 86_400_000);
-	if (ahead < 1) return 'Choose a date from tomorrow on';
+	if (ahead < 1) return 'Choose a date after today';
 	if (ahead > MAX_DAYS_AHEAD) return `Choose a date within ${MAX_DAYS_AHEAD} days`;
 	return null;
 }

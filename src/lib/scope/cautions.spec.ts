@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { DEFER_TO_LOCAL_RULES, cautionsFor, type CautionInput } from './cautions';
+import { DEFER_TO_LOCAL_RULES, cautionAdvice, cautionsFor, type CautionInput } from './cautions';
 
 const quiet: CautionInput = {
 	curtainAirbags: 'no',
@@ -135,8 +135,19 @@ describe('cautionsFor', () => {
 		expect(ranks).toEqual([...ranks].sort((a, b) => a - b));
 		expect(all[0]?.severity).toBe('danger');
 		for (const caution of all) {
-			expect(caution.body.endsWith(DEFER_TO_LOCAL_RULES)).toBe(true);
+			// The sentence on local rules is said once above the list, not in every caution.
+			expect(caution.body).not.toContain(DEFER_TO_LOCAL_RULES);
 			expect(caution.title.length).toBeGreaterThan(0);
 		}
+	});
+});
+
+describe('cautionAdvice', () => {
+	it('leaves the sentence on local rules off bodies stored with it, and others as they are', () => {
+		// Source: the form contract (the sentence is shown once above the list).
+		expect(cautionAdvice(`Keep the cable clear. ${DEFER_TO_LOCAL_RULES}`)).toBe(
+			'Keep the cable clear.'
+		);
+		expect(cautionAdvice('Keep the cable clear.')).toBe('Keep the cable clear.');
 	});
 });

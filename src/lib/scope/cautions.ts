@@ -1,6 +1,7 @@
 /**
- * Safety and legal cautions raised by a job's answers. They guide, they do not rule: each body
- * ends by deferring to local road rules and licensed practice.
+ * Safety and legal cautions raised by a job's answers. They guide, they do not rule: the list is
+ * shown under one sentence deferring to local road rules and licensed practice
+ * (DEFER_TO_LOCAL_RULES), said once for all of them.
  */
 import type { JobRequestInput } from './request';
 
@@ -28,7 +29,7 @@ export interface Caution {
 	body: string;
 }
 
-/** Closes every caution body: this guide never overrides the law or a licensed professional. */
+/** Said once above the list: this guide never overrides the law or a licensed professional. */
 export const DEFER_TO_LOCAL_RULES =
 	'Where local road rules, vehicle standards or licensed practice say otherwise, follow them.';
 
@@ -51,7 +52,7 @@ export type CautionInput = Pick<
 export function cautionsFor(input: CautionInput): Caution[] {
 	const cautions: Caution[] = [];
 	const add = (code: CautionCode, severity: CautionSeverity, title: string, body: string) =>
-		cautions.push({ code, severity, title, body: `${body} ${DEFER_TO_LOCAL_RULES}` });
+		cautions.push({ code, severity, title, body });
 	const hasFuseTaps = input.power === 'hardwired-switched' || input.power === 'hardwired-parking';
 	const hasRear = input.cameras !== 'front';
 
@@ -201,4 +202,15 @@ export function cautionsFor(input: CautionInput): Caution[] {
 			"dealer how fitting an accessory bears on the car's own warranty."
 	);
 	return cautions.sort((a, b) => SEVERITY_ORDER[a.severity] - SEVERITY_ORDER[b.severity]);
+}
+
+/**
+ * A caution's own advice. Scope sheets posted before the sentence on local rules moved above the
+ * list still carry it at the end of each body; it is said once now, so it is left off here.
+ * @param body a caution body as stored
+ */
+export function cautionAdvice(body: string): string {
+	return body.endsWith(DEFER_TO_LOCAL_RULES)
+		? body.slice(0, -DEFER_TO_LOCAL_RULES.length).trimEnd()
+		: body;
 }

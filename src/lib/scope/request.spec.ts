@@ -59,7 +59,7 @@ describe('jobRequestSchema', () => {
 	it('wants a four-digit year', () => {
 		// Source: the form contract.
 		expect(fieldErrors({ ...VALID, year: '19' }).year).toEqual([
-			'Enter the year as four digits, e.g. 2018'
+			'Enter a year from 1900 to 2099, e.g. 2018'
 		]);
 	});
 

@@ -72,7 +72,7 @@ export const jobRequestSchema = z
 		model: requiredText('model', 60),
 		year: textField({ error: 'Enter the year' })
 			.trim()
-			.regex(/^(19|20)\d{2}$/, { error: 'Enter the year as four digits, e.g. 2018' }),
+			.regex(/^(19|20)\d{2}$/, { error: 'Enter a year from 1900 to 2099, e.g. 2018' }),
 		bodyStyle: z.enum(BODY_STYLES, { error: 'Choose a body style' }),
 		fuseFamily: z.enum(FUSE_FAMILY_ANSWERS, {
 			error: "Choose the fuse type, or 'not sure'"

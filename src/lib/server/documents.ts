@@ -3,12 +3,15 @@ import { and, desc, eq, inArray, sql } from 'drizzle-orm';
 import {
 	canViewInstallerDocument,
 	isProfilePublic,
+	mayRemoveDocument,
+	stageOf,
 	type DocumentKind,
 	type DocumentViewer
 } from '$lib/vetting';
 import { db, type Tx } from './db';
 import { installerDocument, installerProfile } from './db/schema';
-import type { StoredUpload } from './files/uploads';
+import { discardUpload, type StoredUpload } from './files/uploads';
+import { refuse, type Refusal } from './refusal';
 
 export async function documentKinds(
 	tx: Tx | typeof db,
@@ -93,4 +96,50 @@ export async function findViewableDocument(viewer: DocumentViewer | null, id: st
 	const profilePublic = isProfilePublic(doc.vettingStatus);
 	const decision = canViewInstallerDocument(viewer, { ...doc, profilePublic });
 	return decision === 'allowed' ? doc : decision;
+}
+
+/**
+ * Removes one of the installer's own documents (its row, then its stored files). Gallery photos
+ * may go at any time; vetting documents only while the application is not sent or an admin has
+ * asked for more.
+ * @returns the removed document's original name, or a refusal
+ */
+export async function removeInstallerDocument(
+	installerId: string,
+	documentId: string
+): Promise<{ ok: true; originalName: string } | Refusal> {
+	const removed = await db.transaction(async (tx) => {
+		const [profile] = await tx
+			.select({
+				vettingStatus: installerProfile.vettingStatus,
+				submittedAt: installerProfile.submittedAt
+			})
+			.from(installerProfile)
+			.where(eq(installerProfile.userId, installerId))
+			.for('update');
+		const [doc] = await tx
+			.select({
+				kind: installerDocument.kind,
+				objectKey: installerDocument.objectKey,
+				thumbKey: installerDocument.thumbKey,
+				originalName: installerDocument.originalName
+			})
+			.from(installerDocument)
+			.where(
+				and(eq(installerDocument.id, documentId), eq(installerDocument.installerId, installerId))
+			);
+		if (!profile || !doc) return refuse(404, 'There is no such document among yours.');
+		if (!mayRemoveDocument(doc.kind, stageOf(profile))) {
+			return refuse(
+				409,
+				'This document is part of an application an admin has read. Upload a newer one instead, or ask the admin team to remove it.'
+			);
+		}
+		await tx.delete(installerDocument).where(eq(installerDocument.id, documentId));
+		return doc;
+	});
+	if ('ok' in removed) return removed;
+	// After commit: a file left behind by a failed delete is only unreferenced storage.
+	await discardUpload(removed);
+	return { ok: true, originalName: removed.originalName };
 }

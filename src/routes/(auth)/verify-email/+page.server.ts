@@ -13,8 +13,17 @@ export const load: PageServerLoad = ({ url, locals }) => ({
 	token: url.searchParams.get('token'),
 	sent: url.searchParams.has('sent'),
 	verified: url.searchParams.has('done') || (locals.user?.emailVerified ?? false),
-	email: locals.user?.email ?? null
+	email: locals.user?.email ?? null,
+	// After confirming, the person continues to where their work starts.
+	home: locals.user ? HOME[locals.user.role] : HOME.guest
 });
+
+const HOME = {
+	owner: { href: '/owner', label: 'Continue to My jobs' },
+	installer: { href: '/installer', label: 'Continue to your application' },
+	admin: { href: '/admin', label: 'Continue to the overview' },
+	guest: { href: '/sign-in', label: 'Sign in to continue' }
+} as const;
 
 export const actions = {
 	confirm: async ({ request }) => {

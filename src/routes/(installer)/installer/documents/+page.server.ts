@@ -5,12 +5,22 @@ import { insuranceSchema } from '$lib/forms/vetting';
 import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/http/form-data';
 import { requireRole } from '$lib/server/http/guards';
 import { discardUpload, storeUpload } from '$lib/server/files/uploads';
-import { addInstallerDocument, listInstallerDocuments } from '$lib/server/documents';
+import {
+	addInstallerDocument,
+	listInstallerDocuments,
+	removeInstallerDocument
+} from '$lib/server/documents';
 import { getInstallerProfile, saveInsuranceDetails } from '$lib/server/installers';
 import { DOCUMENT_TYPES, IMAGE_TYPES } from '$lib/uploads';
-import { DOCUMENT_KINDS, type DocumentKind } from '$lib/vetting';
-import { refusalMessage } from '$lib/server/http/respond';
+import { DOCUMENT_KINDS, mayRemoveDocument, stageOf, type DocumentKind } from '$lib/vetting';
+import { refusalFail, refusalMessage } from '$lib/server/http/respond';
+import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
+
+const removeSchema = z.object({
+	id: z.uuid({ error: 'There is no such document among yours.' }),
+	confirm: z.literal('yes', { error: 'Tick the box to confirm the removal.' })
+});
 
 export const load: PageServerLoad = async () => {
 	const installer = requireRole('installer');
@@ -27,7 +37,12 @@ export const load: PageServerLoad = async () => {
 			}
 		: undefined;
 	const form = await superValidate(initial, zod4(insuranceSchema), { errors: false });
-	return { form, documents, hasProfile: p !== null };
+	const stage = p ? stageOf(p) : 'draft';
+	return {
+		form,
+		documents: documents.map((d) => ({ ...d, removable: mayRemoveDocument(d.kind, stage) })),
+		hasProfile: p !== null
+	};
 };
 
 export const actions = {
@@ -70,5 +85,18 @@ export const actions = {
 			throw err;
 		}
 		return { uploaded: outcome.stored.originalName };
+	},
+	removeDocument: async ({ request }) => {
+		const installer = requireRole('installer');
+		const data = await readFormData(request);
+		if (!data) return fail(400, { removeProblem: UNREADABLE_FORM_MESSAGE, removeId: null });
+		const parsed = removeSchema.safeParse(Object.fromEntries(data));
+		const removeId = String(data.get('id') ?? '');
+		if (!parsed.success) {
+			return fail(400, { removeProblem: parsed.error.issues[0]?.message ?? '', removeId });
+		}
+		const result = await removeInstallerDocument(installer.id, parsed.data.id);
+		if (!result.ok) return refusalFail(result, { removeProblem: result.message, removeId });
+		return { removed: result.originalName };
 	}
 } satisfies Actions;

@@ -3,6 +3,7 @@ import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { withdrawSchema } from '$lib/forms/job';
 import { requireRole } from '$lib/server/http/guards';
+import { getLiveBookingForJob } from '$lib/server/bookings';
 import { getOwnedJob, listJobPhotos, withdrawJob } from '$lib/server/jobs';
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import { refusalMessage } from '$lib/server/http/respond';
@@ -12,12 +13,13 @@ export const load: PageServerLoad = async ({ params }) => {
 	const owner = requireRole('owner');
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, NOT_YOUR_JOB);
-	const [photos, withdrawForm] = await Promise.all([
+	const [photos, withdrawForm, booking] = await Promise.all([
 		listJobPhotos(job.id),
-		superValidate(zod4(withdrawSchema), { errors: false })
+		superValidate(zod4(withdrawSchema), { errors: false }),
+		getLiveBookingForJob(job.id)
 	]);
 	const { draft: _draft, ...shown } = job;
-	return { job: shown, photos, withdrawForm };
+	return { job: shown, photos, withdrawForm, booking };
 };
 
 export const actions = {

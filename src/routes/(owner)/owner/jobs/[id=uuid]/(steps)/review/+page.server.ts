@@ -2,7 +2,7 @@ import { error, fail } from '@sveltejs/kit';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { JobStep } from '$lib/forms/job';
 import { computeScope, jobRequestSchema } from '$lib/scope';
-import { draftProblems, postJob } from '$lib/server/jobs';
+import { draftProblems, listJobPhotos, postJob } from '$lib/server/jobs';
 import { loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -10,7 +10,13 @@ export const load: PageServerLoad = async ({ params }) => {
 	const { job } = await loadEditableJob(params.id);
 	const problems = draftProblems(job);
 	const parsed = jobRequestSchema.safeParse(job.draft);
+	const photos = await listJobPhotos(job.id);
 	return {
+		// What the owner entered, shown above the sheet with a way back to each step.
+		entered: parsed.success ? parsed.data : null,
+		locationMode: job.locationMode,
+		addressLine: job.addressLine,
+		photos,
 		problems,
 		scope: parsed.success ? computeScope(parsed.data) : null,
 		posted: job.status !== 'drafting',

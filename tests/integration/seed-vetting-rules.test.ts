@@ -1,0 +1,84 @@
+import { eq, inArray } from 'drizzle-orm';
+import { describe, expect, it } from 'vitest';
+import { db } from '$lib/server/db';
+import { minCoverCents } from '$lib/server/vetting';
+import { installerDocument, installerHours, installerProfile } from '$lib/server/db/schema';
+import {
+	approvalProblems,
+	localDate,
+	missingParts,
+	type Checklist,
+	type DocumentKind
+} from '$lib/vetting';
+import { seedDemo } from '../../seed';
+
+// The admin's ticks are judgement, recorded in the seed's approval events as all ticked.
+const ALL_TICKED: Checklist = {
+	identityMatches: true,
+	insuranceCurrent: true,
+	abnValidAndActive: true
+};
+
+describe('the demo data obeys the vetting rules', () => {
+	it('every vetted installer has what sending and approving an application require', async () => {
+		expect(await seedDemo(process.env.DATABASE_URL as string)).toBe(true);
+		const today = localDate(new Date(), 'Australia/Adelaide');
+		const vetted = await db
+			.select()
+			.from(installerProfile)
+			.where(inArray(installerProfile.vettingStatus, ['approved', 'suspended']));
+		expect(vetted.length).toBeGreaterThan(0);
+		for (const profile of vetted) {
+			const docs = await db
+				.select({ kind: installerDocument.kind })
+				.from(installerDocument)
+				.where(eq(installerDocument.installerId, profile.userId));
+			const documentKinds = docs.map((d) => d.kind as DocumentKind);
+			const hours = await db
+				.select({ weekday: installerHours.weekday })
+				.from(installerHours)
+				.where(eq(installerHours.installerId, profile.userId));
+			const name = profile.businessName;
+			expect(
+				missingParts({
+					hasProfile: true,
+					abn: profile.abn,
+					phone: profile.phone,
+					skills: profile.skills,
+					insurer: profile.insurer,
+					insuranceExpiresOn: profile.insuranceExpiresOn,
+					coverCents: profile.coverCents,
+					documentKinds,
+					hoursCount: hours.length
+				}),
+				name
+			).toEqual([]);
+			expect(
+				approvalProblems(ALL_TICKED, {
+					coverCents: profile.coverCents,
+					insuranceExpiresOn: profile.insuranceExpiresOn,
+					documentKinds,
+					today,
+					minCoverCents: minCoverCents()
+				}),
+				name
+			).toEqual([]);
+		}
+	});
+
+	it('every application that was sent has an insurance certificate and photo ID', async () => {
+		const sent = await db
+			.select({ id: installerProfile.userId, name: installerProfile.businessName })
+			.from(installerProfile)
+			.where(inArray(installerProfile.vettingStatus, ['applied', 'waiting_on_installer']));
+		for (const { id, name } of sent) {
+			const kinds = (
+				await db
+					.select({ kind: installerDocument.kind })
+					.from(installerDocument)
+					.where(eq(installerDocument.installerId, id))
+			).map((d) => d.kind);
+			expect(kinds, name).toEqual(expect.arrayContaining(['insurance', 'photo-id']));
+		}
+	});
+});
