@@ -118,6 +118,12 @@ export const QUOTE_STATUS_LABELS: Record<
 	lapsed: 'Expired'
 };
 
+/** A live quote whose installer is paused or suspended: kept on file, not bookable. */
+export const QUOTE_ON_HOLD_LABEL = 'On hold';
+/** Why an on-hold quote has no booking form. */
+export const INSTALLER_ON_HOLD_TEXT =
+	'This quote is on hold: the installer cannot take bookings just now. Choose another quote or check back later.';
+
 /** Where a booking stands. */
 export const BOOKING_STATUS_LABELS: Record<
 	'awaiting_payment' | 'confirmed' | 'cancelled' | 'lapsed',

@@ -15,6 +15,8 @@ import { appUrl } from './app-url';
 import { withMail, type Mail } from './mail';
 import { refuse, type Refusal } from './refusal';
 import { titleOrUntitled } from '$lib/posted-job';
+import { canQuote } from '$lib/vetting';
+import { INSTALLER_ON_HOLD_TEXT } from '$lib/labels';
 
 /** How long a provisional booking holds the installer's slot while the owner pays (Tapline's choice). */
 export const HOLD_MINUTES = 30;
@@ -46,6 +48,24 @@ export async function bookQuote(
 ): Promise<BookingOutcome> {
 	try {
 		return await withMail(async (tx, mail) => {
+			// The installer's standing is read under a share lock taken before the job's lock, in
+			// the order quoting and vetting decisions lock (profile, then job, then quote): a
+			// suspension or pause in progress finishes first, and one arriving later waits for
+			// this booking, which it then sees and handles.
+			const [owner] = await tx
+				.select({ installerId: quote.installerId })
+				.from(quote)
+				.where(and(eq(quote.id, quoteId), eq(quote.jobId, jobId)));
+			if (!owner) return refuse(404, 'There is no such quote on your jobs.');
+			const [standing] = await tx
+				.select({
+					vettingStatus: installerProfile.vettingStatus,
+					pausedReason: installerProfile.pausedReason
+				})
+				.from(installerProfile)
+				.where(eq(installerProfile.userId, owner.installerId))
+				.for('share');
+			if (!standing || !canQuote(standing)) return refuse(409, INSTALLER_ON_HOLD_TEXT);
 			const [locked] = await tx
 				.select()
 				.from(job)

@@ -28,6 +28,10 @@ export type EmailTemplate =
 	  }
 	| { template: 'insurance-paused'; data: VettingMailData & { reason: string } }
 	| { template: 'insurance-approved'; data: VettingMailData }
+	| {
+			template: 'quote-withdrawn-suspended';
+			data: { displayName: string; businessName: string; title: string; url: string };
+	  }
 	| MarketplaceEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
@@ -162,6 +166,15 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 					`An admin checked the new certificate for ${message.data.businessName}. The pause is lifted.`
 				],
 				action: { label: 'Go to my work', url: message.data.url }
+			});
+		case 'quote-withdrawn-suspended':
+			return renderBlock(`A quote for your ${message.data.title} was withdrawn`, {
+				heading: `Hi ${message.data.displayName}, one quote is no longer open`,
+				paragraphs: [
+					`${message.data.businessName} can no longer take work through Tapline, so we withdrew their quote for your ${message.data.title}.`,
+					'Your job stays open to the other vetted installers in your area; their quotes are unchanged.'
+				],
+				action: { label: 'See my quotes', url: message.data.url }
 			});
 	}
 }

@@ -48,6 +48,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			businessName: q.businessName,
 			suburb: q.suburb,
 			status: q.status,
+			onHold: q.onHold,
 			revision: q.revision,
 			lines: q.lines,
 			totalCents: q.totalCents,
@@ -66,6 +67,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 		bookable:
 			job.status === 'collecting_quotes' &&
 			q?.status === 'live' &&
+			!q.onHold &&
 			(!q.expiresAt || q.expiresAt.getTime() > now),
 		holdMinutes: HOLD_MINUTES,
 		messages: messages.map((m) => ({ ...m, mine: m.authorId === owner.id })),
