@@ -11,6 +11,7 @@ import { appUrl } from './app-url';
 import { withMail } from './mail';
 import { refuse, type Refusal } from './refusal';
 import { hashPassword, verifyPassword } from './password';
+import { clearSignInLimits, consumeSignInAttempt, recordSuccessfulSignIn } from './rate-limit';
 
 const VERIFY_TTL_MS = 48 * 3600_000;
 const RESET_TTL_MS = 3600_000;
@@ -136,6 +137,33 @@ export async function authenticate(
 	return summary;
 }
 
+/** Why a sign-in did not go through, in the same words whichever part was wrong. */
+export const SIGN_IN_MISMATCH = 'That e-mail and password do not match an account.';
+
+/**
+ * Signs in with throttling: the attempt is taken from the allowances (`consumeSignInAttempt`,
+ * atomic) before the password is checked, so parallel guesses cannot outrun the count.
+ * @param address the client's address, for the per-address and per-(account, address) limits
+ */
+export async function signIn(
+	email: string,
+	password: string,
+	address: string
+): Promise<{ ok: true; account: AccountSummary } | Refusal> {
+	const gate = await consumeSignInAttempt(email, address);
+	if (!gate.allowed) {
+		const minutes = Math.ceil(gate.retryAfterSeconds / 60);
+		return refuse(
+			429,
+			`Too many sign-in attempts. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or reset your password: the link in the e-mail always works.`
+		);
+	}
+	const account = await authenticate(email, password);
+	if (!account) return refuse(400, SIGN_IN_MISMATCH);
+	await recordSuccessfulSignIn(email, address);
+	return { ok: true, account };
+}
+
 /** Marks the address of the token's account verified; false for an unknown, used or expired token. */
 export async function verifyEmailToken(token: string): Promise<boolean> {
 	return db.transaction(async (tx) => {
@@ -185,15 +213,21 @@ export async function requestPasswordReset(email: string): Promise<void> {
 /** Sets a new password from a reset token and signs the account out everywhere. */
 export async function resetPassword(token: string, newPassword: string): Promise<boolean> {
 	const passwordHash = await hashPassword(newPassword);
-	const userId = await db.transaction(async (tx) => {
+	const changed = await db.transaction(async (tx) => {
 		const id = await takeToken(tx, token, 'reset-password');
 		if (!id) return null;
 		// A working reset link proves control of the mailbox, so it verifies the address too.
-		await tx.update(user).set({ passwordHash, emailVerifiedAt: new Date() }).where(eq(user.id, id));
-		return id;
+		const [row] = await tx
+			.update(user)
+			.set({ passwordHash, emailVerifiedAt: new Date() })
+			.where(eq(user.id, id))
+			.returning({ email: user.email });
+		return row ? { id, email: row.email } : null;
 	});
-	if (!userId) return false;
-	await endAllSessions(userId);
+	if (!changed) return false;
+	await endAllSessions(changed.id);
+	// Whoever was guessing this account's password no longer keeps its holder out.
+	await clearSignInLimits(changed.email);
 	return true;
 }
 
