@@ -1,4 +1,4 @@
-import { count, eq } from 'drizzle-orm';
+import { and, count, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import {
 	authenticate,
@@ -108,7 +108,9 @@ describe('authenticate', () => {
 describe('password reset', () => {
 	it('writes nothing for an unknown address', async () => {
 		const [before] = await db.select({ n: count() }).from(emailOutbox);
-		expect(await requestPasswordReset('no-such-person@example.test')).toBeUndefined();
+		expect(await requestPasswordReset('no-such-person@example.test', '192.0.2.1')).toEqual({
+			ok: true
+		});
 		const [after] = await db.select({ n: count() }).from(emailOutbox);
 		expect(after?.n).toBe(before?.n);
 	});
@@ -122,7 +124,7 @@ describe('password reset', () => {
 			userId: created.user.id,
 			expiresAt: new Date(Date.now() + 3600_000)
 		});
-		await requestPasswordReset(email);
+		await requestPasswordReset(email, '192.0.2.2');
 		const token = await tokenFromOutbox(email);
 		expect(await resetPassword(token, 'a brand new passphrase')).toBe(true);
 		expect(await authenticate(email, password)).toBeNull();
@@ -130,6 +132,58 @@ describe('password reset', () => {
 		const sessions = await db.select().from(session).where(eq(session.userId, created.user.id));
 		expect(sessions).toHaveLength(0);
 		expect(await resetPassword(token, 'another passphrase!!')).toBe(false);
+	});
+});
+
+describe('password reset links and their limits (issue 11, item 7)', () => {
+	it('ends every earlier link when a new one is issued, and the others when one is used', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'Twice', role: 'owner' });
+		await requestPasswordReset(email, '192.0.2.3');
+		const older = await tokenFromOutbox(email);
+		await requestPasswordReset(email, '192.0.2.3');
+		const newer = await tokenFromOutbox(email);
+		expect(newer).not.toBe(older);
+		expect(await resetPassword(older, 'the older link passphrase')).toBe(false);
+		expect(await resetPassword(newer, 'the newer link passphrase')).toBe(true);
+		expect(await resetPassword(older, 'the older link passphrase')).toBe(false);
+		expect(await authenticate(email, 'the newer link passphrase')).not.toBeNull();
+	});
+
+	it('sends at most three links an hour per account, from any addresses', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'Many', role: 'owner' });
+		const results = await Promise.all(
+			Array.from({ length: 30 }, (_, i) => requestPasswordReset(email, `10.2.${i}.1`))
+		);
+		expect(results.filter((r) => r.ok)).toHaveLength(3);
+		expect(results.filter((r) => !r.ok && r.status === 429)).toHaveLength(27);
+		const mails = await db
+			.select({ id: emailOutbox.id })
+			.from(emailOutbox)
+			.where(and(eq(emailOutbox.toAddress, email), eq(emailOutbox.template, 'reset-password')));
+		expect(mails).toHaveLength(3);
+	});
+
+	it('answers an unknown address exactly as a known one, limit included', async () => {
+		const known = freshEmail();
+		await createAccount({ email: known, password, displayName: 'Known', role: 'owner' });
+		const unknown = `nobody.${freshEmail()}`;
+		for (const email of [known, unknown]) {
+			const answers = [];
+			for (let i = 0; i < 4; i++) answers.push(await requestPasswordReset(email, `10.3.${i}.9`));
+			expect(answers.map((a) => (a.ok ? 'ok' : a.status))).toEqual(['ok', 'ok', 'ok', 429]);
+		}
+	});
+
+	it('limits requests per client address across accounts', async () => {
+		const address = '198.51.100.77';
+		const answers = [];
+		for (let i = 0; i < 11; i++) {
+			answers.push(await requestPasswordReset(`spray${i}.${freshEmail()}`, address));
+		}
+		expect(answers.filter((a) => a.ok)).toHaveLength(10);
+		expect((await requestPasswordReset(freshEmail(), '198.51.100.78')).ok).toBe(true);
 	});
 });
 

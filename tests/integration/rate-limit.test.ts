@@ -51,7 +51,7 @@ describe('sign-in throttling (counters in PostgreSQL)', () => {
 		}
 		expect(outcome(await signIn(email, password, '192.0.2.45'))).toBe(429);
 
-		await requestPasswordReset(email);
+		await requestPasswordReset(email, '192.0.2.45');
 		const [mail] = await db
 			.select({ text: emailOutbox.text })
 			.from(emailOutbox)

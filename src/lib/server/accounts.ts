@@ -11,7 +11,12 @@ import { appUrl } from './app-url';
 import { withMail } from './mail';
 import { refuse, type Refusal } from './refusal';
 import { hashPassword, verifyPassword } from './password';
-import { clearSignInLimits, consumeSignInAttempt, recordSuccessfulSignIn } from './rate-limit';
+import {
+	clearSignInLimits,
+	consumeResetRequest,
+	consumeSignInAttempt,
+	recordSuccessfulSignIn
+} from './rate-limit';
 
 const VERIFY_TTL_MS = 48 * 3600_000;
 const RESET_TTL_MS = 3600_000;
@@ -38,7 +43,18 @@ export const normaliseEmail = (email: string) => email.trim().toLowerCase();
 
 const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
+/** Ends every unused link of this purpose for the account: only the newest one ever works. */
+async function endUnusedTokens(tx: Tx, userId: string, purpose: TokenPurpose) {
+	await tx
+		.update(emailToken)
+		.set({ usedAt: new Date() })
+		.where(
+			and(eq(emailToken.userId, userId), eq(emailToken.purpose, purpose), isNull(emailToken.usedAt))
+		);
+}
+
 async function issueToken(tx: Tx, userId: string, purpose: TokenPurpose, ttlMs: number) {
+	await endUnusedTokens(tx, userId, purpose);
 	const token = randomBytes(32).toString('base64url');
 	await tx.insert(emailToken).values({
 		tokenHash: hashToken(token),
@@ -192,10 +208,23 @@ export async function resendVerification(userId: string): Promise<boolean> {
 }
 
 /**
- * Queues a reset link when the address has an account. Says nothing either way to the caller's
- * visitor, so the form cannot be used to find out who has an account.
+ * Queues a reset link when the address has an account, ending every earlier unused one. Says
+ * nothing either way to the caller's visitor, so the form cannot be used to find out who has an
+ * account; requests are limited per client address and per address typed (known or not).
+ * @param address the client's address
  */
-export async function requestPasswordReset(email: string): Promise<void> {
+export async function requestPasswordReset(
+	email: string,
+	address: string
+): Promise<{ ok: true } | Refusal> {
+	const gate = await consumeResetRequest(email, address);
+	if (!gate.allowed) {
+		const minutes = Math.ceil(gate.retryAfterSeconds / 60);
+		return refuse(
+			429,
+			`Too many reset requests. Use the newest link we sent, or wait ${minutes} minute${minutes === 1 ? '' : 's'} and ask again.`
+		);
+	}
 	await withMail(async (tx, mail) => {
 		const [found] = await tx
 			.select({ id: user.id, email: user.email, displayName: user.displayName })
@@ -208,6 +237,7 @@ export async function requestPasswordReset(email: string): Promise<void> {
 			data: { displayName: found.displayName, url: appUrl(`/reset-password?token=${token}`) }
 		});
 	});
+	return { ok: true };
 }
 
 /** Sets a new password from a reset token and signs the account out everywhere. */
@@ -216,6 +246,7 @@ export async function resetPassword(token: string, newPassword: string): Promise
 	const changed = await db.transaction(async (tx) => {
 		const id = await takeToken(tx, token, 'reset-password');
 		if (!id) return null;
+		await endUnusedTokens(tx, id, 'reset-password');
 		// A working reset link proves control of the mailbox, so it verifies the address too.
 		const [row] = await tx
 			.update(user)

@@ -87,6 +87,25 @@ export async function recordSuccessfulSignIn(email: string, address: string): Pr
 	]);
 }
 
+/** Reset links sent per account in an hour (Tapline's choice). */
+export const RESET_ACCOUNT_REQUESTS = 3;
+/** Reset requests per client address in an hour, whatever the accounts (Tapline's choice). */
+export const RESET_ADDRESS_REQUESTS = 10;
+
+const resetByAddress = limiter('reset-address', RESET_ADDRESS_REQUESTS, 3600);
+const resetByAccount = limiter('reset-account', RESET_ACCOUNT_REQUESTS, 3600);
+
+/**
+ * Takes a password-reset request from the address's and the account's allowance. The account key
+ * is the address typed, whether or not it has an account, so the answer reveals nothing.
+ */
+export function consumeResetRequest(email: string, address: string): Promise<ThrottleResult> {
+	return consumeAll([
+		[resetByAddress, address],
+		[resetByAccount, accountKey(email)]
+	]);
+}
+
 /**
  * Clears every sign-in counter of an account (all its address pairs too): a working reset link
  * proves control of the mailbox, so whoever was guessing no longer keeps the holder out.
