@@ -1,3 +1,4 @@
+import { newAccount } from './support/requests';
 import { expect, linkIn, signIn, test, uniqueEmail, waitForMail } from './fixtures';
 
 test('an owner signs up, confirms the e-mail through the inbox, signs out and back in', async ({
@@ -13,8 +14,9 @@ test('an owner signs up, confirms the e-mail through the inbox, signs out and ba
 	await page.getByRole('button', { name: 'Create account' }).click();
 
 	await expect(page).toHaveURL(/\/verify-email\?sent=1/);
-	await expect(page.getByText('Account created')).toBeVisible();
-	await expect(page.getByText('Please confirm your e-mail address')).toBeVisible();
+	await expect(page.getByText('Check your inbox')).toBeVisible();
+	// Sign-up starts no session (a taken address must get the same answer); the link does.
+	await expect(page.getByRole('button', { name: 'Sign out' })).toHaveCount(0);
 
 	const mail = await waitForMail(email, /Confirm your e-mail/);
 	expect(mail.html).toContain('Confirm my address');
@@ -59,7 +61,6 @@ test('a forgotten password is reset by e-mail', async ({ page }) => {
 	await page.getByLabel('Password').fill('first passphrase here');
 	await page.getByRole('button', { name: 'Create account' }).click();
 	await expect(page).toHaveURL(/verify-email/);
-	await page.getByRole('button', { name: 'Sign out' }).click();
 
 	await page.goto('/forgot-password');
 	await page.getByLabel('E-mail').fill(email);
@@ -73,4 +74,26 @@ test('a forgotten password is reset by e-mail', async ({ page }) => {
 	await expect(page.getByText('Your password is changed')).toBeVisible();
 	await signIn(page, email, 'second passphrase here');
 	await expect(page).toHaveURL(/\/installer$/);
+});
+
+test('sign-up answers a taken address exactly like a free one and explains by e-mail', async ({
+	page,
+	browser
+}) => {
+	const taken = await newAccount(browser, 'owner', 'taken');
+	await taken.context.close();
+	const answers = [];
+	for (const email of [taken.email, uniqueEmail('free')]) {
+		await page.goto('/sign-up');
+		await page.getByLabel('Your name').fill('Ada Quill');
+		await page.getByLabel('E-mail').fill(email);
+		await page.getByLabel('Password').fill('long enough passphrase');
+		await page.getByRole('button', { name: 'Create account' }).click();
+		await expect(page).toHaveURL(/\/verify-email\?sent=1/);
+		answers.push(await page.locator('main').innerText());
+	}
+	expect(answers[0]).toBe(answers[1]);
+	const mail = await waitForMail(taken.email, /tried to sign up/);
+	expect(linkIn(mail, '/sign-in')).toContain('/sign-in');
+	expect(mail.text).toContain('/forgot-password');
 });

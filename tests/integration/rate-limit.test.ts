@@ -14,7 +14,7 @@ let n = 0;
 async function account() {
 	const email = `throttle${++n}.${Date.now()}@example.test`;
 	const made = await createAccount({ email, password, displayName: 'Wren', role: 'owner' });
-	if (!made.ok) throw new Error(made.message);
+	if (!made.user) throw new Error('no account made');
 	return email;
 }
 

@@ -15,6 +15,7 @@ import {
 	clearSignInLimits,
 	consumeResetRequest,
 	consumeSignInAttempt,
+	consumeSignUpNotice,
 	recordSuccessfulSignIn
 } from './rate-limit';
 
@@ -89,16 +90,19 @@ export interface NewAccount {
 }
 
 /**
- * Creates an owner or installer account and queues the verification e-mail.
- * Refuses (409, on the e-mail field) an address that already has an account.
+ * Creates an owner or installer account and queues the verification e-mail. An address that
+ * already has an account gets an e-mail saying someone tried to sign up with it (at most a few an
+ * hour), and nothing else changes. The caller must answer both cases alike (say "check your
+ * inbox", start no session), so sign-up cannot tell anyone which addresses have accounts.
+ * @returns the new account, or null when the address was taken
  */
 export async function createAccount(
 	input: NewAccount
-): Promise<{ ok: true; user: AccountSummary } | Refusal> {
+): Promise<{ ok: true; user: AccountSummary | null }> {
 	const email = normaliseEmail(input.email);
 	const passwordHash = await hashPassword(input.password);
-	return withMail(async (tx, mail) => {
-		const [created] = await tx
+	const created = await withMail(async (tx, mail) => {
+		const [made] = await tx
 			.insert(user)
 			.values({
 				id: crypto.randomUUID(),
@@ -114,14 +118,23 @@ export async function createAccount(
 				role: user.role,
 				displayName: user.displayName
 			});
-		if (!created) return emailTaken();
-		const token = await issueToken(tx, created.id, 'verify-email', VERIFY_TTL_MS);
+		if (!made) return null;
+		const token = await issueToken(tx, made.id, 'verify-email', VERIFY_TTL_MS);
 		await mail.send(email, {
 			template: 'verify-email',
-			data: { displayName: created.displayName, url: appUrl(`/verify-email?token=${token}`) }
+			data: { displayName: made.displayName, url: appUrl(`/verify-email?token=${token}`) }
 		});
-		return { ok: true as const, user: created };
+		return made;
 	});
+	if (!created && (await consumeSignUpNotice(email)).allowed) {
+		await withMail(async (_tx, mail) => {
+			await mail.send(email, {
+				template: 'sign-up-existing',
+				data: { signInUrl: appUrl('/sign-in'), resetUrl: appUrl('/forgot-password') }
+			});
+		});
+	}
+	return { ok: true, user: created };
 }
 
 // A real argon2id hash of a random string: checking against it when the account does not exist
@@ -180,13 +193,17 @@ export async function signIn(
 	return { ok: true, account };
 }
 
-/** Marks the address of the token's account verified; false for an unknown, used or expired token. */
-export async function verifyEmailToken(token: string): Promise<boolean> {
+/**
+ * Marks the address of the token's account verified.
+ * @returns the account's id (the link proves control of the mailbox, so the page may sign it
+ * in), or null for an unknown, used or expired token
+ */
+export async function verifyEmailToken(token: string): Promise<string | null> {
 	return db.transaction(async (tx) => {
 		const userId = await takeToken(tx, token, 'verify-email');
-		if (!userId) return false;
+		if (!userId) return null;
 		await tx.update(user).set({ emailVerifiedAt: new Date() }).where(eq(user.id, userId));
-		return true;
+		return userId;
 	});
 }
 

@@ -15,6 +15,7 @@ export type { RenderedEmail };
 export type EmailTemplate =
 	| { template: 'verify-email'; data: { displayName: string; url: string } }
 	| { template: 'reset-password'; data: { displayName: string; url: string } }
+	| { template: 'sign-up-existing'; data: { signInUrl: string; resetUrl: string } }
 	| { template: 'admin-invite'; data: { displayName: string; invitedBy: string; url: string } }
 	| { template: 'vetting-received'; data: VettingMailData }
 	| { template: 'vetting-more-info'; data: VettingMailData & { message: string } }
@@ -73,6 +74,16 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 				action: { label: 'Choose a new password', url: message.data.url },
 				footnote:
 					'The link works for one hour and only once. If you did not ask, ignore this message: your password stays as it is.'
+			});
+		case 'sign-up-existing':
+			return renderBlock('Someone tried to sign up to Tapline with your address', {
+				heading: 'You already have a Tapline account',
+				paragraphs: [
+					'Someone (perhaps you) tried to create a Tapline account with this e-mail address, which already has one. We did not create a second account or change anything.',
+					'If it was you, sign in instead. If you do not remember the password, reset it from the sign-in page.'
+				],
+				action: { label: 'Sign in', url: message.data.signInUrl },
+				footnote: `Forgot your password? Choose a new one: ${message.data.resetUrl}. If it was not you, ignore this message: your account stays as it is.`
 			});
 		case 'admin-invite':
 			return renderBlock('You have been made a Tapline admin', {

@@ -106,6 +106,15 @@ export function consumeResetRequest(email: string, address: string): Promise<Thr
 	]);
 }
 
+/** "Someone tried to sign up with your address" e-mails per address in an hour (Tapline's choice). */
+export const SIGN_UP_NOTICES = 3;
+const signUpNotices = limiter('signup-notice', SIGN_UP_NOTICES, 3600);
+
+/** Takes one notice from the address's allowance, so sign-up cannot be used to flood a mailbox. */
+export function consumeSignUpNotice(email: string): Promise<ThrottleResult> {
+	return consumeAll([[signUpNotices, accountKey(email)]]);
+}
+
 /**
  * Clears every sign-in counter of an account (all its address pairs too): a working reset link
  * proves control of the mailbox, so whoever was guessing no longer keeps the holder out.

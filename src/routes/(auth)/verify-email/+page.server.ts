@@ -2,6 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { textField } from '$lib/forms/fields';
 import { resendVerification, verifyEmailToken } from '$lib/server/accounts';
+import { startSession } from '$lib/server/auth';
 import { readFormData } from '$lib/server/form-data';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -17,13 +18,16 @@ export const load: PageServerLoad = ({ url, locals }) => ({
 });
 
 export const actions = {
-	confirm: async ({ request }) => {
+	confirm: async ({ request, cookies, locals }) => {
 		const parsed = confirmSchema.safeParse(Object.fromEntries((await readFormData(request)) ?? []));
-		if (!parsed.success || !(await verifyEmailToken(parsed.data.token))) {
+		const userId = parsed.success ? await verifyEmailToken(parsed.data.token) : null;
+		if (!userId) {
 			return fail(400, {
 				error: 'This link has expired or was already used. Sign in and ask for a new one.'
 			});
 		}
+		// The link proves the mailbox; sign-up starts no session, so this is where one begins.
+		if (locals.user?.id !== userId) await startSession(cookies, userId);
 		redirect(303, '/verify-email?done=1');
 	},
 	resend: async ({ locals }) => {
