@@ -361,14 +361,16 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 		problem,
 		myQuote: myQuote ?? null,
 		booking: mine ?? null,
-		// Only once booked with this installer: who and where exactly.
-		revealed: mine
-			? {
-					ownerName: row.ownerName,
-					addressLine: j.addressLine,
-					exact: { lat: reach.location.lat, lng: reach.location.lng } satisfies LatLng
-				}
-			: null
+		// Only once a booking with this installer is confirmed by payment: who and where exactly.
+		// A provisional booking reveals nothing; its hold may lapse and the job open again.
+		revealed:
+			mine?.status === 'confirmed'
+				? {
+						ownerName: row.ownerName,
+						addressLine: j.addressLine,
+						exact: { lat: reach.location.lat, lng: reach.location.lng } satisfies LatLng
+					}
+				: null
 	};
 }
 

@@ -48,7 +48,7 @@ async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: stri
 		.from(quote)
 		.where(and(eq(quote.jobId, jobId), eq(quote.installerId, installerId)));
 	const [bookedWith] = await tx
-		.select({ id: booking.id })
+		.select({ id: booking.id, status: booking.status })
 		.from(booking)
 		.where(
 			and(
@@ -71,7 +71,8 @@ async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: stri
 		installerEmail: profile.email,
 		installerMayWrite: offered || Boolean(hasQuote) || Boolean(bookedWith),
 		hasQuote: Boolean(hasQuote),
-		booked: Boolean(bookedWith)
+		// Contact details pass unmasked only once the booking is confirmed by payment.
+		booked: bookedWith?.status === 'confirmed'
 	};
 }
 
@@ -79,8 +80,8 @@ export type MessageOutcome = { ok: true; masked: MaskedKind[] } | Refusal;
 
 /**
  * Adds a message to the thread between a job's owner and one installer, masking phone numbers,
- * e-mail addresses and links (see CONTACT_PATTERNS) unless the job is booked with that installer,
- * and e-mails the other side.
+ * e-mail addresses and links (see CONTACT_PATTERNS) unless a booking with that installer is
+ * confirmed by payment, and e-mails the other side.
  * @param author who writes: the job's owner or the installer of the thread
  */
 export async function postJobMessage(
