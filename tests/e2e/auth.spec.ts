@@ -1,4 +1,4 @@
-import { newAccount } from './support/requests';
+import { BASE_URL, newAccount, postForm } from './support/requests';
 import { expect, linkIn, signIn, test, uniqueEmail, waitForMail } from './fixtures';
 
 test('an owner signs up, confirms the e-mail through the inbox, signs out and back in', async ({
@@ -96,4 +96,26 @@ test('sign-up answers a taken address exactly like a free one and explains by e-
 	const mail = await waitForMail(taken.email, /tried to sign up/);
 	expect(linkIn(mail, '/sign-in')).toContain('/sign-in');
 	expect(mail.text).toContain('/forgot-password');
+});
+
+test('an unconfirmed account is sent to a page that explains and resends the link', async ({
+	browser
+}) => {
+	const context = await browser.newContext({ baseURL: BASE_URL });
+	const email = uniqueEmail('unconfirmed');
+	const password = 'long enough passphrase';
+	const fields = { role: 'installer', displayName: 'Una Confirmed', email, password };
+	expect((await postForm(context.request, '/sign-up', fields)).status()).toBe(303);
+	expect((await postForm(context.request, '/sign-in', { email, password })).status()).toBe(303);
+	// Sending an application needs a confirmed address: the server refuses and says where to go.
+	const submit = await postForm(context.request, '/installer?/submit', {});
+	expect(submit.status()).toBe(303);
+	expect(submit.headers()['location']).toBe('/verify-email?needed=1');
+
+	const page = await context.newPage();
+	await page.goto('/verify-email?needed=1');
+	await expect(page.getByRole('alert')).toContainText('Confirm your e-mail address first');
+	await page.getByRole('button', { name: 'Send the link again' }).click();
+	await expect(page.getByText('A new link is on its way.')).toBeVisible();
+	await context.close();
 });

@@ -9,6 +9,7 @@
 import { and, eq, inArray, lte, ne, type SQL } from 'drizzle-orm';
 import { formatSlot } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
+import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, quote, user } from './db/schema';
 import { appUrl } from './app-url';
@@ -55,6 +56,7 @@ export async function bookQuote(
 			const [owner] = await tx
 				.select({ installerId: quote.installerId })
 				.from(quote)
+				.innerJoin(job, and(eq(job.id, quote.jobId), eq(job.ownerId, ownerId)))
 				.where(and(eq(quote.id, quoteId), eq(quote.jobId, jobId)));
 			if (!owner) return refuse(404, 'There is no such quote on your jobs.');
 			const [standing] = await tx
@@ -72,6 +74,8 @@ export async function bookQuote(
 				.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
 				.for('update');
 			if (!locked) return refuse(404, 'There is no such quote on your jobs.');
+			const unconfirmed = await unconfirmedEmail(tx, ownerId);
+			if (unconfirmed) return unconfirmed;
 			// An expired hold on this very job must not keep it booked.
 			const lapsedHere = await lapseHolds(tx, mail, eq(booking.jobId, jobId), now);
 			const status = lapsedHere > 0 ? 'collecting_quotes' : locked.status;

@@ -11,6 +11,7 @@ import {
 	type DocumentViewer,
 	type VettingStage
 } from '$lib/vetting';
+import { unconfirmedEmail } from './confirmed-email';
 import { db } from './db';
 import { installerHours, installerProfile, vettingEvent, type InstallerProfile } from './db/schema';
 import { documentKinds, listInstallerDocuments } from './documents';
@@ -274,6 +275,8 @@ export async function submitApplication(installerId: string): Promise<VettingOut
 	return withMail(async (tx, mail) => {
 		const row = await lockProfile(tx, installerId);
 		if (!row) return refuse(409, 'Fill in the application first.');
+		const unconfirmed = await unconfirmedEmail(tx, installerId);
+		if (unconfirmed) return unconfirmed;
 		const stage = stageOf(row.profile);
 		const to = nextStatus(stage, 'submit');
 		if (!to) return refuse(409, 'This application has already been sent.');

@@ -5,6 +5,7 @@
 import { and, asc, eq, inArray } from 'drizzle-orm';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { matchProblem, reachOf } from '$lib/matching';
+import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, jobMessage, quote, user } from './db/schema';
 import { threadMessageSchema } from '$lib/forms/thread';
@@ -101,6 +102,8 @@ export async function postJobMessage(
 		const isOwner = author.role === 'owner' && author.id === access.ownerId;
 		const isInstaller = author.role === 'installer' && author.id === installerId;
 		if (!isOwner && !isInstaller) return refuse(404, 'There is no such job.');
+		const unconfirmed = await unconfirmedEmail(tx, author.id);
+		if (unconfirmed) return unconfirmed;
 		if (isInstaller && !access.installerMayWrite) {
 			return refuse(403, 'This job is no longer open to you.');
 		}

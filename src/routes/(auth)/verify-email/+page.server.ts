@@ -13,6 +13,7 @@ const confirmSchema = z.object({ token: textField().min(10).max(200) });
 export const load: PageServerLoad = ({ url, locals }) => ({
 	token: url.searchParams.get('token'),
 	sent: url.searchParams.has('sent'),
+	needed: url.searchParams.has('needed'),
 	verified: url.searchParams.has('done') || (locals.user?.emailVerified ?? false),
 	email: locals.user?.email ?? null
 });

@@ -1,5 +1,5 @@
 import { redirect } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guards';
+import { requireConfirmedRole, requireRole } from '$lib/server/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
 import { refusalFail } from '$lib/server/respond';
 import type { Actions, PageServerLoad } from './$types';
@@ -26,7 +26,7 @@ export const load: PageServerLoad = async () => {
 
 export const actions = {
 	submit: async () => {
-		const installer = requireRole('installer');
+		const installer = requireConfirmedRole('installer');
 		const result = await submitApplication(installer.id);
 		if (!result.ok) return refusalFail(result);
 		redirect(303, '/installer?sent=1');

@@ -5,7 +5,7 @@ import { z } from 'zod';
 import { threadMessageSchema } from '$lib/forms/thread';
 import { textField } from '$lib/forms/fields';
 import { bookQuote, HOLD_MINUTES, lapseExpiredHolds } from '$lib/server/bookings';
-import { requireRole } from '$lib/server/guards';
+import { requireConfirmedRole, requireRole } from '$lib/server/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { refusalMessage } from '$lib/server/respond';
 import { formatSlot } from '$lib/schedule';
@@ -79,7 +79,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 
 export const actions = {
 	book: async ({ request, params }) => {
-		const owner = requireRole('owner');
+		const owner = requireConfirmedRole('owner');
 		const bookForm = await superValidate(request, zod4(bookSchema));
 		if (!bookForm.valid) return fail(400, { bookForm });
 		const result = await bookQuote(owner.id, params.id, bookForm.data.quoteId, bookForm.data.slot);
@@ -87,7 +87,7 @@ export const actions = {
 		redirect(303, `/owner/bookings/${result.bookingId}`);
 	},
 	reply: async ({ request, params }) => {
-		const owner = requireRole('owner');
+		const owner = requireConfirmedRole('owner');
 		const replyForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!replyForm.valid) return fail(400, { replyForm });
 		const sent = await postJobMessage(
