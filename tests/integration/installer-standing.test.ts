@@ -7,6 +7,7 @@ import { booking, emailOutbox, installerProfile, quote, user } from '$lib/server
 import { bookQuote } from '$lib/server/bookings';
 import { listQuotesForOwner, submitQuote } from '$lib/server/quotes';
 import { decideApplication } from '$lib/server/vetting';
+import { postJobMessage } from '$lib/server/threads';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 import { makeAccount } from './vetting-helpers';
 
@@ -126,5 +127,24 @@ describe('booking and the installer’s standing', () => {
 			// booking was refused and the quote withdrawn); never a deadlock or a booked withdrawal.
 			expect(booked.ok ? 'accepted' : 'withdrawn').toBe(after?.status);
 		}
+	});
+
+	it('stops a paused installer posting questions, except about a job booked with them (item 16)', async () => {
+		const { job: j, ownerId, installer, quote: q } = await quotedJob();
+		const asks = { id: installer.id, role: 'installer' as const };
+		const pause = (reason: string | null) =>
+			db
+				.update(installerProfile)
+				.set({ pausedReason: reason })
+				.where(eq(installerProfile.userId, installer.id));
+		await pause('Insurance expired.');
+		const refused = await postJobMessage(j.id, installer.id, asks, 'Is the car garaged?');
+		expect(refused).toMatchObject({ ok: false, status: 403 });
+		expect(!refused.ok && refused.message).toContain('paused');
+
+		await pause(null);
+		expect((await bookQuote(ownerId, j.id, q.id, q.slots[0]!.start)).ok).toBe(true);
+		await pause('Insurance expired.');
+		expect((await postJobMessage(j.id, installer.id, asks, 'See you Tuesday.')).ok).toBe(true);
 	});
 });

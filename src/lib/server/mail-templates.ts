@@ -16,6 +16,10 @@ export type EmailTemplate =
 	| { template: 'verify-email'; data: { displayName: string; url: string } }
 	| { template: 'reset-password'; data: { displayName: string; url: string } }
 	| { template: 'sign-up-existing'; data: { signInUrl: string; resetUrl: string } }
+	| {
+			template: 'email-undeliverable';
+			data: { displayName: string; to: string; subject: string; reason: string };
+	  }
 	| { template: 'admin-invite'; data: { displayName: string; invitedBy: string; url: string } }
 	| { template: 'vetting-received'; data: VettingMailData }
 	| { template: 'vetting-more-info'; data: VettingMailData & { message: string } }
@@ -84,6 +88,15 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 				],
 				action: { label: 'Sign in', url: message.data.signInUrl },
 				footnote: `Forgot your password? Choose a new one: ${message.data.resetUrl}. If it was not you, ignore this message: your account stays as it is.`
+			});
+		case 'email-undeliverable':
+			return renderBlock(`An e-mail to ${message.data.to} could not be delivered`, {
+				heading: `Hi ${message.data.displayName}, one message was refused for good`,
+				paragraphs: [
+					`The receiving mail server permanently refused “${message.data.subject}” to ${message.data.to}, so Tapline will not try it again.`,
+					`It said: ${message.data.reason}`,
+					'Check the address with the person (it may be mistyped or closed) and help them update it.'
+				]
 			});
 		case 'admin-invite':
 			return renderBlock('You have been made a Tapline admin', {

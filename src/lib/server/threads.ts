@@ -3,6 +3,7 @@
  * masked until the job is booked with that installer.
  */
 import { and, asc, eq, inArray } from 'drizzle-orm';
+import { canQuote } from '$lib/vetting';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { matchProblem, reachOf } from '$lib/matching';
 import { unconfirmedEmail } from './confirmed-email';
@@ -70,7 +71,9 @@ async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: stri
 		...row,
 		businessName: profile.businessName,
 		installerEmail: profile.email,
-		installerMayWrite: offered || Boolean(hasQuote) || Boolean(bookedWith),
+		// A paused or suspended installer may still talk about a job booked with them, nothing else.
+		installerMayWrite: Boolean(bookedWith) || (canQuote(p) && (offered || Boolean(hasQuote))),
+		installerPaused: !canQuote(p),
 		hasQuote: Boolean(hasQuote),
 		// Contact details pass unmasked only once the booking is confirmed by payment.
 		booked: bookedWith?.status === 'confirmed'
@@ -105,7 +108,12 @@ export async function postJobMessage(
 		const unconfirmed = await unconfirmedEmail(tx, author.id);
 		if (unconfirmed) return unconfirmed;
 		if (isInstaller && !access.installerMayWrite) {
-			return refuse(403, 'This job is no longer open to you.');
+			return refuse(
+				403,
+				access.installerPaused
+					? 'Your quoting is paused, so you cannot send questions to owners until it is lifted.'
+					: 'This job is no longer open to you.'
+			);
 		}
 		if (isOwner && !access.hasQuote) {
 			const [asked] = await tx
