@@ -136,7 +136,10 @@ export const BOOKING_STATUS_LABELS: Record<
 };
 
 /** What happened in an installer's vetting history, as an audit line. */
-export const VETTING_ACTION_LABELS: Record<VettingAction | 'insurance-updated', string> = {
+export const VETTING_ACTION_LABELS: Record<
+	VettingAction | 'insurance-updated' | 'service-area-moved',
+	string
+> = {
 	submit: 'Application sent',
 	approve: 'Approved',
 	'request-info': 'Asked for more',
@@ -145,7 +148,8 @@ export const VETTING_ACTION_LABELS: Record<VettingAction | 'insurance-updated', 
 	reinstate: 'Reinstated',
 	'approve-insurance': 'New insurance approved',
 	pause: 'Quoting paused',
-	'insurance-updated': 'Insurance details changed'
+	'insurance-updated': 'Insurance details changed',
+	'service-area-moved': 'Service area moved'
 };
 
 /** How an installer works, or where a job is fitted. */

@@ -1,7 +1,11 @@
 // Issue 11, item 1: whether a job is offered, and whether the map's bounds hold it, goes by its
 // ~1 km grid-cell centre, so an installer moving their pin, radius or map learns nothing finer
 // than the cell about where the owner is.
+import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
+import { db } from '$lib/server/db';
+import { installerProfile, vettingEvent } from '$lib/server/db/schema';
+import { saveServiceArea, SERVICE_AREA_MOVES_PER_DAY } from '$lib/server/installers';
 import { distanceKm, snapToGrid, type LatLng } from '$lib/geo';
 import { getInstallerContext, getJobForInstaller, listOfferedJobs } from '$lib/server/matching';
 import { makeInstaller, makeOpenJob } from './matching-helpers';
@@ -54,5 +58,36 @@ describe('offering by grid cell, not by exact point', () => {
 		expect(await listed(centre.lng - 0.001, centre.lng + 0.001)).toBe(true);
 		// Bounds holding the exact point but not the centre: not listed.
 		expect(await listed(WEST.lng - 0.001, WEST.lng + 0.001)).toBe(false);
+	});
+
+	it('records each service-area move as a vetting event and allows three a day', async () => {
+		const installer = await makeInstaller({ base: centre, radiusKm: 10 });
+		const move = (lng: number, serviceRadiusKm = 10) =>
+			saveServiceArea(installer.id, {
+				latitude: centre.lat,
+				longitude: lng,
+				serviceRadiusKm,
+				freeRadiusKm: 5,
+				travelFeeCentsPerKm: 100,
+				place: null
+			});
+		// Saving the same place and radius again (fees only) is not a move.
+		expect((await move(centre.lng)).ok).toBe(true);
+		for (let i = 1; i <= SERVICE_AREA_MOVES_PER_DAY; i++) {
+			expect((await move(centre.lng + i * 0.01)).ok).toBe(true);
+		}
+		expect(await move(centre.lng + 0.5, 1)).toMatchObject({ ok: false, status: 429 });
+		const events = await db
+			.select({ action: vettingEvent.action })
+			.from(vettingEvent)
+			.where(eq(vettingEvent.installerId, installer.id));
+		expect(events.filter((e) => e.action === 'service-area-moved')).toHaveLength(
+			SERVICE_AREA_MOVES_PER_DAY
+		);
+		const [profile] = await db
+			.select({ lng: installerProfile.longitude })
+			.from(installerProfile)
+			.where(eq(installerProfile.userId, installer.id));
+		expect(profile?.lng).toBeCloseTo(centre.lng + SERVICE_AREA_MOVES_PER_DAY * 0.01, 9);
 	});
 });

@@ -77,7 +77,7 @@ export async function recordEvent(
 	event: {
 		installerId: string;
 		actorId: string | null;
-		action: VettingAction | 'insurance-updated';
+		action: VettingAction | 'insurance-updated' | 'service-area-moved';
 		fromStatus: VettingStatus | null;
 		toStatus: VettingStatus | null;
 		reason?: string | null;
