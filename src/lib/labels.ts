@@ -118,6 +118,12 @@ export const QUOTE_STATUS_LABELS: Record<Quote['status'], string> = {
 	lapsed: 'Expired'
 };
 
+/** A live quote whose installer is paused or suspended: kept on file, not bookable. */
+export const QUOTE_ON_HOLD_LABEL = 'On hold';
+/** Why an on-hold quote has no booking form. */
+export const INSTALLER_ON_HOLD_TEXT =
+	'This quote is on hold: the installer cannot take bookings just now. Choose another quote or check back later.';
+
 /** Where a booking stands. */
 export const BOOKING_STATUS_LABELS: Record<Booking['status'], string> = {
 	awaiting_payment: 'Provisional: waiting for payment',
@@ -127,7 +133,10 @@ export const BOOKING_STATUS_LABELS: Record<Booking['status'], string> = {
 };
 
 /** What happened in an installer's vetting history, as an audit line. */
-export const VETTING_ACTION_LABELS: Record<VettingAction | 'insurance-updated', string> = {
+export const VETTING_ACTION_LABELS: Record<
+	VettingAction | 'insurance-updated' | 'service-area-moved',
+	string
+> = {
 	submit: 'Application sent',
 	approve: 'Approved',
 	'request-info': 'Asked for more',
@@ -136,7 +145,8 @@ export const VETTING_ACTION_LABELS: Record<VettingAction | 'insurance-updated', 
 	reinstate: 'Reinstated',
 	'approve-insurance': 'New insurance approved',
 	pause: 'Quoting paused',
-	'insurance-updated': 'Insurance details changed'
+	'insurance-updated': 'Insurance details changed',
+	'service-area-moved': 'Service area moved'
 };
 
 /** Where the owner's car is fitted, in the owner's words. */
@@ -158,11 +168,11 @@ export const WORK_MODE_LABELS: Record<'mobile' | 'workshop', string> = {
 };
 
 /**
- * Said when a message had contact details hidden. Messages are masked until the job is booked with
- * that installer; what was hidden stays hidden, later messages are not masked.
+ * Said when a message had contact details hidden. Messages are masked until a booking with that
+ * installer is confirmed; what was hidden stays hidden, later messages are not masked.
  */
 export const CONTACTS_HIDDEN_NOTE =
-	'Phone numbers, e-mail addresses and links in it were hidden: Tapline hides contact details until the owner books. Messages sent after booking are not hidden.';
+	'Phone numbers, e-mail addresses and links in it were hidden: Tapline hides contact details until a booking is confirmed by payment. Messages sent after that are not hidden.';
 
 /** A preferred time of day in a sentence ('Tue 8 Dec, morning'); the hours are in TIME_WINDOWS. */
 export const TIME_WINDOW_WORDS: Record<TimeWindow, string> = {

@@ -99,7 +99,9 @@ export type MatchProblem =
  * @returns null when it matches, otherwise the first reason it does not
  */
 export function matchProblem(job: JobReach, installer: InstallerReach): MatchProblem | null {
-	if (!withinServiceArea(job.location, installer.base, installer.serviceRadiusKm)) {
+	// Decided from the job's grid-cell centre, never its exact point: otherwise an installer could
+	// move their base and radius until a job appears and disappears, and find the owner's house.
+	if (!withinServiceArea(snapToGrid(job.location), installer.base, installer.serviceRadiusKm)) {
 		return {
 			kind: 'outside-area',
 			message: `This job is outside your service area of ${String(installer.serviceRadiusKm)} km.`

@@ -43,6 +43,14 @@ export function linkIn(mail: Mail, pathStart: string): string {
 	return match[0];
 }
 
+/** Opens the confirmation link e-mailed to `email` and confirms it: the account is then signed in. */
+export async function confirmFromInbox(page: Page, email: string) {
+	const mail = await waitForMail(email, /Confirm your e-mail/);
+	await page.goto(linkIn(mail, '/verify-email?token='));
+	await page.getByRole('button', { name: 'Confirm my address' }).click();
+	await expect(page.getByText('Your e-mail address is confirmed')).toBeVisible();
+}
+
 export async function signIn(page: Page, email: string, password = DEMO_PASSWORD) {
 	await page.goto('/sign-in');
 	await page.getByLabel('E-mail').fill(email);

@@ -1,8 +1,11 @@
 import type { Browser, Page } from '@playwright/test';
 import { DEMO, expect, signIn, test, waitForMail } from './fixtures';
+import { closeQueries, query } from './support/requests';
 
 const JOB = '2018 Demo Hatch';
 const RUTH = 'ruth.akande@tapline.test';
+
+test.afterAll(closeQueries);
 
 /** Signs an installer in, finds the demo hatch on the board and opens it. */
 async function openHatchFromBoard(page: Page) {
@@ -159,7 +162,21 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	const declined = await waitForMail(RUTH, /went to another installer/);
 	expect(declined.text).toContain('Thanks for quoting');
 
-	// The booked installer now sees the owner's name and address.
+	// A provisional booking shows the installer neither the owner's name nor the address.
+	await demo.reload();
+	await expect(demo.getByText('Provisionally booked with you')).toBeVisible();
+	await expect(demo.getByTestId('booked-details')).toHaveCount(0);
+	await expect(demo.getByText('14 Demo Court')).toHaveCount(0);
+	await expect(demo.getByText('Marnie Okafor')).toHaveCount(0);
+
+	// Once payment confirms the booking (payments are not open yet, so the test stands in for
+	// the payment step's confirmation), the installer sees the owner's name and address.
+	const jobId = new URL(demo.url()).pathname.split('/').at(-1);
+	const confirmed = await query(
+		`UPDATE booking SET status = 'confirmed' WHERE job_id = $1 AND status = 'awaiting_payment' RETURNING id`,
+		[jobId]
+	);
+	expect(confirmed).toHaveLength(1);
 	await demo.reload();
 	await expect(demo.getByTestId('booked-details')).toContainText('14 Demo Court, Walkerville');
 	await expect(demo.getByTestId('booked-details')).toContainText('Marnie Okafor');

@@ -1,6 +1,6 @@
 import type { Browser, Page } from '@playwright/test';
 import { cleanPdf } from '../support/pdfs';
-import { DEMO, expect, signIn, test, uniqueEmail, waitForMail } from './fixtures';
+import { confirmFromInbox, DEMO, expect, signIn, test, uniqueEmail, waitForMail } from './fixtures';
 
 // A 1x1 PNG (PNG specification, ISO/IEC 15948: signature, IHDR, IDAT, IEND chunks).
 const PNG = Buffer.from(
@@ -40,6 +40,7 @@ test('an installer applies, an admin asks for more, then approves; e-mails arriv
 	await page.getByLabel('Password').fill('long enough passphrase');
 	await page.getByRole('button', { name: 'Create account' }).click();
 	await expect(page).toHaveURL(/\/verify-email\?sent=1/);
+	await confirmFromInbox(page, email);
 
 	// The application.
 	await page.goto('/installer');

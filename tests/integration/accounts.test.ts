@@ -1,4 +1,4 @@
-import { count, eq } from 'drizzle-orm';
+import { and, count, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import {
 	authenticate,
@@ -40,7 +40,7 @@ describe('createAccount', () => {
 			displayName: ' Wren ',
 			role: 'owner'
 		});
-		if (!result.ok) throw new Error(result.message);
+		if (!result.user) throw new Error('no account made');
 		const [row] = await db.select().from(user).where(eq(user.id, result.user.id));
 		expect(row?.email).toBe(email);
 		expect(row?.displayName).toBe('Wren');
@@ -53,24 +53,46 @@ describe('createAccount', () => {
 		expect(mails[0]?.html).toContain('<a href="http://tapline.test/verify-email?token=');
 	});
 
-	it('refuses a second account on the same address and writes nothing for it', async () => {
+	it('answers a taken address like a free one and explains by e-mail (issue 11, item 13)', async () => {
 		const email = freshEmail();
 		await createAccount({ email, password, displayName: 'First', role: 'owner' });
-		const [before] = await db.select({ n: count() }).from(emailOutbox);
 		const again = await createAccount({
 			email: email.toUpperCase(),
 			password,
 			displayName: 'Second',
 			role: 'installer'
 		});
-		expect(again).toMatchObject({ ok: false, status: 409, fields: { email: expect.any(String) } });
-		const [after] = await db.select({ n: count() }).from(emailOutbox);
-		expect(after?.n).toBe(before?.n);
+		// Nothing for the caller to tell apart: no refusal, no account to sign in.
+		expect(again).toEqual({ ok: true, user: null });
+		const mails = await db
+			.select()
+			.from(emailOutbox)
+			.where(eq(emailOutbox.toAddress, email))
+			.orderBy(emailOutbox.createdAt);
+		expect(mails.map((m) => m.template)).toEqual(['verify-email', 'sign-up-existing']);
+		expect(mails[1]?.text).toContain('already has one');
+		expect(mails[1]?.text).toContain(`${ORIGIN}/sign-in`);
+		expect(mails[1]?.text).toContain(`${ORIGIN}/forgot-password`);
 		const [{ n: users } = { n: 0 }] = await db
 			.select({ n: count() })
 			.from(user)
 			.where(eq(user.email, email));
 		expect(users).toBe(1);
+		const [first] = await db.select().from(user).where(eq(user.email, email));
+		expect(first?.displayName).toBe('First');
+	});
+
+	it('sends at most three "you already have an account" e-mails an hour', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'First', role: 'owner' });
+		for (let i = 0; i < 5; i++) {
+			await createAccount({ email, password, displayName: 'Again', role: 'owner' });
+		}
+		const notices = await db
+			.select({ id: emailOutbox.id })
+			.from(emailOutbox)
+			.where(and(eq(emailOutbox.toAddress, email), eq(emailOutbox.template, 'sign-up-existing')));
+		expect(notices).toHaveLength(3);
 	});
 });
 
@@ -79,10 +101,10 @@ describe('verifyEmailToken', () => {
 		const email = freshEmail();
 		await createAccount({ email, password, displayName: 'Ver', role: 'installer' });
 		const token = await tokenFromOutbox(email);
-		expect(await verifyEmailToken(token)).toBe(true);
+		expect(await verifyEmailToken(token)).toMatch(/^[0-9a-f-]{36}$/);
 		const [row] = await db.select().from(user).where(eq(user.email, email));
 		expect(row?.emailVerifiedAt).toBeInstanceOf(Date);
-		expect(await verifyEmailToken(token)).toBe(false);
+		expect(await verifyEmailToken(token)).toBeNull();
 	});
 
 	it('refuses an expired token and an unknown one', async () => {
@@ -90,8 +112,8 @@ describe('verifyEmailToken', () => {
 		await createAccount({ email, password, displayName: 'Late', role: 'owner' });
 		const token = await tokenFromOutbox(email);
 		await db.update(emailToken).set({ expiresAt: new Date(Date.now() - 1000) });
-		expect(await verifyEmailToken(token)).toBe(false);
-		expect(await verifyEmailToken('not-a-real-token-at-all')).toBe(false);
+		expect(await verifyEmailToken(token)).toBeNull();
+		expect(await verifyEmailToken('not-a-real-token-at-all')).toBeNull();
 	});
 });
 
@@ -108,7 +130,9 @@ describe('authenticate', () => {
 describe('password reset', () => {
 	it('writes nothing for an unknown address', async () => {
 		const [before] = await db.select({ n: count() }).from(emailOutbox);
-		expect(await requestPasswordReset('no-such-person@example.test')).toBeUndefined();
+		expect(await requestPasswordReset('no-such-person@example.test', '192.0.2.1')).toEqual({
+			ok: true
+		});
 		const [after] = await db.select({ n: count() }).from(emailOutbox);
 		expect(after?.n).toBe(before?.n);
 	});
@@ -116,13 +140,13 @@ describe('password reset', () => {
 	it('sets the new password, signs out every session, and works only once', async () => {
 		const email = freshEmail();
 		const created = await createAccount({ email, password, displayName: 'Reset', role: 'owner' });
-		if (!created.ok) throw new Error(created.message);
+		if (!created.user) throw new Error('no account made');
 		await db.insert(session).values({
 			id: `s-${Date.now()}`,
 			userId: created.user.id,
 			expiresAt: new Date(Date.now() + 3600_000)
 		});
-		await requestPasswordReset(email);
+		await requestPasswordReset(email, '192.0.2.2');
 		const token = await tokenFromOutbox(email);
 		expect(await resetPassword(token, 'a brand new passphrase')).toBe(true);
 		expect(await authenticate(email, password)).toBeNull();
@@ -130,6 +154,58 @@ describe('password reset', () => {
 		const sessions = await db.select().from(session).where(eq(session.userId, created.user.id));
 		expect(sessions).toHaveLength(0);
 		expect(await resetPassword(token, 'another passphrase!!')).toBe(false);
+	});
+});
+
+describe('password reset links and their limits (issue 11, item 7)', () => {
+	it('ends every earlier link when a new one is issued, and the others when one is used', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'Twice', role: 'owner' });
+		await requestPasswordReset(email, '192.0.2.3');
+		const older = await tokenFromOutbox(email);
+		await requestPasswordReset(email, '192.0.2.3');
+		const newer = await tokenFromOutbox(email);
+		expect(newer).not.toBe(older);
+		expect(await resetPassword(older, 'the older link passphrase')).toBe(false);
+		expect(await resetPassword(newer, 'the newer link passphrase')).toBe(true);
+		expect(await resetPassword(older, 'the older link passphrase')).toBe(false);
+		expect(await authenticate(email, 'the newer link passphrase')).not.toBeNull();
+	});
+
+	it('sends at most three links an hour per account, from any addresses', async () => {
+		const email = freshEmail();
+		await createAccount({ email, password, displayName: 'Many', role: 'owner' });
+		const results = await Promise.all(
+			Array.from({ length: 30 }, (_, i) => requestPasswordReset(email, `10.2.${i}.1`))
+		);
+		expect(results.filter((r) => r.ok)).toHaveLength(3);
+		expect(results.filter((r) => !r.ok && r.status === 429)).toHaveLength(27);
+		const mails = await db
+			.select({ id: emailOutbox.id })
+			.from(emailOutbox)
+			.where(and(eq(emailOutbox.toAddress, email), eq(emailOutbox.template, 'reset-password')));
+		expect(mails).toHaveLength(3);
+	});
+
+	it('answers an unknown address exactly as a known one, limit included', async () => {
+		const known = freshEmail();
+		await createAccount({ email: known, password, displayName: 'Known', role: 'owner' });
+		const unknown = `nobody.${freshEmail()}`;
+		for (const email of [known, unknown]) {
+			const answers = [];
+			for (let i = 0; i < 4; i++) answers.push(await requestPasswordReset(email, `10.3.${i}.9`));
+			expect(answers.map((a) => (a.ok ? 'ok' : a.status))).toEqual(['ok', 'ok', 'ok', 429]);
+		}
+	});
+
+	it('limits requests per client address across accounts', async () => {
+		const address = '198.51.100.77';
+		const answers = [];
+		for (let i = 0; i < 11; i++) {
+			answers.push(await requestPasswordReset(`spray${i}.${freshEmail()}`, address));
+		}
+		expect(answers.filter((a) => a.ok)).toHaveLength(10);
+		expect((await requestPasswordReset(freshEmail(), '198.51.100.78')).ok).toBe(true);
 	});
 });
 

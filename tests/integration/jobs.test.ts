@@ -22,7 +22,8 @@ async function makeUser(role: 'owner' | 'installer') {
 		email: `${role}.${id}@example.test`,
 		passwordHash: 'x',
 		role,
-		displayName: role
+		displayName: role,
+		emailVerifiedAt: new Date()
 	});
 	return id;
 }

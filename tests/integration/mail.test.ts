@@ -1,10 +1,17 @@
-import { eq } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../local-fakes/smtp';
 import { db } from '$lib/server/db';
 import { emailOutbox } from '$lib/server/db/schema';
 import { appUrl } from '$lib/server/mail/app-url';
-import { deliverEmail, listStrandedEmails, queueEmail, withMail } from '$lib/server/mail/outbox';
+import {
+	deliverEmail,
+	listStrandedEmails,
+	MAX_DELIVERY_ATTEMPTS,
+	queueEmail,
+	withMail
+} from '$lib/server/mail/outbox';
+import { makeAccount } from './vetting-helpers';
 
 let fake: MailFake;
 
@@ -82,6 +89,60 @@ describe('outbox delivery', () => {
 		const ids = await listStrandedEmails(5 * 60_000);
 		expect(ids).toContain(stranded);
 		expect(ids).not.toContain(sent);
+	});
+});
+
+describe('permanent rejections (issue 11, item 16)', () => {
+	const failNext = (code: number) =>
+		fetch(`${fake.httpUrl}/api/fail-next`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: JSON.stringify({ count: 1, code })
+		});
+
+	it('gives up a 5xx at once, keeps it from the sweeper and tells every admin', async () => {
+		const admin = await makeAccount('admin');
+		const id = await queue('no-such-mailbox@example.test');
+		await failNext(550);
+		expect(await deliverEmail(id)).toBe('failed');
+		const [row] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, id));
+		expect(row?.sentAt).toBeNull();
+		expect(row?.attempts).toBe(MAX_DELIVERY_ATTEMPTS);
+		expect(row?.lastError).toMatch(/^Permanent rejection: .*550/);
+		await db
+			.update(emailOutbox)
+			.set({ createdAt: new Date(Date.now() - 10 * 60_000) })
+			.where(eq(emailOutbox.id, id));
+		expect(await listStrandedEmails(5 * 60_000)).not.toContain(id);
+
+		const [notice] = await db
+			.select()
+			.from(emailOutbox)
+			.where(
+				and(eq(emailOutbox.toAddress, admin.email), eq(emailOutbox.template, 'email-undeliverable'))
+			);
+		expect(notice?.text).toContain('no-such-mailbox@example.test');
+		expect(notice?.text).toContain('Reset your Tapline password');
+
+		// The notice bouncing in its turn is given up without another notice.
+		await failNext(550);
+		expect(await deliverEmail(notice!.id)).toBe('failed');
+		const notices = await db
+			.select({ id: emailOutbox.id })
+			.from(emailOutbox)
+			.where(
+				and(eq(emailOutbox.toAddress, admin.email), eq(emailOutbox.template, 'email-undeliverable'))
+			);
+		expect(notices).toHaveLength(1);
+	});
+
+	it('still retries a temporary 4xx', async () => {
+		const id = await queue('busy@example.test');
+		await failNext(421);
+		expect(await deliverEmail(id)).toMatchObject({ error: expect.any(String) });
+		const [row] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, id));
+		expect(row?.attempts).toBe(1);
+		expect(await deliverEmail(id)).toBe('sent');
 	});
 });
 

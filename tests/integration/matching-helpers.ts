@@ -18,9 +18,14 @@ let n = 0;
 export async function makeUser(role: 'owner' | 'installer', label: string = role) {
 	const id = crypto.randomUUID();
 	const email = `${label}${++n}.${id.slice(0, 8)}@example.test`;
-	await db
-		.insert(user)
-		.values({ id, email, passwordHash: 'unused', role, displayName: `${label} ${n}` });
+	await db.insert(user).values({
+		id,
+		email,
+		passwordHash: 'unused',
+		role,
+		displayName: `${label} ${n}`,
+		emailVerifiedAt: new Date()
+	});
 	return { id, email };
 }
 

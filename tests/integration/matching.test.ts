@@ -39,15 +39,19 @@ const JOB_AT: LatLng = { lat: -34.9531, lng: 138.6487 };
 
 describe('which installers a job reaches', () => {
 	it('includes installers exactly on and just inside their radius, not just outside', async () => {
-		const { job } = await makeOpenJob(JOB_AT);
+		// Offering goes by the job's grid-cell centre (issue 11, item 1): put the job on one, so
+		// the exact point and the centre agree and the boundary is tested to the metre.
+		const cell = snapToGrid(JOB_AT);
+		const AT = { lat: cell.lat, lng: cell.lng };
+		const { job } = await makeOpenJob(AT);
 		// Bases placed south and west of the job so the job sits north or east of each base.
 		const southOf = (km: number) => {
-			const p = onCircle(JOB_AT, km, 'north');
-			return { lat: JOB_AT.lat - (p.lat - JOB_AT.lat), lng: JOB_AT.lng };
+			const p = onCircle(AT, km, 'north');
+			return { lat: AT.lat - (p.lat - AT.lat), lng: AT.lng };
 		};
 		const westOf = (km: number) => {
-			const p = onCircle(JOB_AT, km, 'east');
-			return { lat: JOB_AT.lat, lng: JOB_AT.lng - (p.lng - JOB_AT.lng) };
+			const p = onCircle(AT, km, 'east');
+			return { lat: AT.lat, lng: AT.lng - (p.lng - AT.lng) };
 		};
 		const onNorth = await makeInstaller({ base: southOf(20), radiusKm: 20 });
 		const onEast = await makeInstaller({ base: westOf(15), radiusKm: 15 });
@@ -57,8 +61,8 @@ describe('which installers a job reaches', () => {
 
 		// The bisection really put them where the test says (the job is on the circle to 1e-9 km).
 		const onNorthBase = southOf(20);
-		expect(distanceKm(JOB_AT, onNorthBase)).toBeLessThanOrEqual(20);
-		expect(distanceKm(JOB_AT, onNorthBase)).toBeGreaterThan(20 - 1e-9);
+		expect(distanceKm(AT, onNorthBase)).toBeLessThanOrEqual(20);
+		expect(distanceKm(AT, onNorthBase)).toBeGreaterThan(20 - 1e-9);
 
 		const reached = (await findInstallersForJob(job)).map((i) => i.id);
 		expect(reached).toEqual(expect.arrayContaining([onNorth.id, onEast.id, inside.id]));

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { booking, emailOutbox, job, jobMessage, quote, quoteRevision } from '$lib/server/db/schema';
 import { MASK_PLACEHOLDER } from '$lib/masking';
-import { bookQuote } from '$lib/server/bookings';
+import { bookQuote, confirmBooking } from '$lib/server/bookings';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { sendOwnerQuoteDigest, submitQuote } from '$lib/server/quotes';
 import {
@@ -195,7 +195,7 @@ describe('sending a quote', () => {
 });
 
 describe('questions and answers', () => {
-	it('masks phone numbers, e-mails and links before booking, not after', async () => {
+	it('masks phone numbers, e-mails and links until the booking is confirmed, not after', async () => {
 		const { job: j, ownerId, installer, parts } = await openJobWithInstaller();
 		const asked = await postJobMessage(
 			j.id,
@@ -222,7 +222,17 @@ describe('questions and answers', () => {
 		const sent = await submitQuote(installer.id, j.id, goodQuote(parts));
 		if (!sent.ok) throw new Error(sent.message);
 		const [q] = await db.select().from(quote).where(eq(quote.id, sent.quoteId));
-		await bookQuote(ownerId, j.id, sent.quoteId, q!.slots[0]!.start);
+		const booked = await bookQuote(ownerId, j.id, sent.quoteId, q!.slots[0]!.start);
+		if (!booked.ok) throw new Error(booked.message);
+		// A provisional booking still masks (issue 11, item 14); payment's confirmation lifts it.
+		const provisional = await postJobMessage(
+			j.id,
+			installer.id,
+			{ id: installer.id, role: 'installer' },
+			'Held, thanks: 0412 345 678'
+		);
+		expect(provisional).toMatchObject({ ok: true, masked: ['phone'] });
+		expect((await confirmBooking(booked.bookingId)).ok).toBe(true);
 		const after = await postJobMessage(
 			j.id,
 			installer.id,

@@ -1,42 +1,84 @@
+// Sign-in throttling against PostgreSQL (issue 11, item 2): attempts are taken before the password
+// check, so a parallel burst gets its allowance and no more; a stranger's guesses lock their own
+// address out of the account, not its holder; the reset link clears the account-wide lock.
+import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
-import {
-	ACCOUNT_ATTEMPTS,
-	ADDRESS_ATTEMPTS,
-	checkSignInAllowed,
-	recordFailedSignIn,
-	recordSuccessfulSignIn
-} from '$lib/server/rate-limit';
+import { createAccount, requestPasswordReset, resetPassword, signIn } from '$lib/server/accounts';
+import { db } from '$lib/server/db';
+import { emailOutbox } from '$lib/server/db/schema';
+import { ACCOUNT_ATTEMPTS, ADDRESS_ATTEMPTS, PAIR_ATTEMPTS } from '$lib/server/rate-limit';
+
+const password = 'correct horse battery';
+let n = 0;
+
+async function account() {
+	const email = `throttle${++n}.${Date.now()}@example.test`;
+	const made = await createAccount({ email, password, displayName: 'Wren', role: 'owner' });
+	if (!made.user) throw new Error('no account made');
+	return email;
+}
+
+/** Statuses of refusals, 'ok' for a sign-in that went through. */
+const outcome = (r: Awaited<ReturnType<typeof signIn>>) => (r.ok ? 'ok' : r.status);
 
 describe('sign-in throttling (counters in PostgreSQL)', () => {
-	it('locks an account after its allowance of failures, for any address', async () => {
-		const email = `locked.${Date.now()}@example.test`;
-		for (let i = 0; i < ACCOUNT_ATTEMPTS; i++) {
-			expect((await checkSignInAllowed(email, `10.0.0.${i}`)).allowed).toBe(true);
-			await recordFailedSignIn(email, `10.0.0.${i}`);
-		}
-		const gate = await checkSignInAllowed(email.toUpperCase(), '10.9.9.9');
-		expect(gate.allowed).toBe(false);
-		if (!gate.allowed) {
-			expect(gate.retryAfterSeconds).toBeGreaterThan(0);
-			expect(gate.retryAfterSeconds).toBeLessThanOrEqual(15 * 60);
-		}
-	});
-
-	it('locks an address that sprays many accounts', async () => {
-		const address = `198.51.100.${Date.now() % 250}`;
-		for (let i = 0; i < ADDRESS_ATTEMPTS; i++)
-			await recordFailedSignIn(`spray${i}@example.test`, address);
-		expect((await checkSignInAllowed('someone.else@example.test', address)).allowed).toBe(false);
-		expect((await checkSignInAllowed('someone.else@example.test', '203.0.113.1')).allowed).toBe(
-			true
+	it('checks at most the allowance of a parallel burst, and the right password in it is refused', async () => {
+		const email = await account();
+		const address = '203.0.113.10';
+		const burst = await Promise.all(
+			Array.from({ length: 30 }, (_, i) =>
+				signIn(email, i === 29 ? password : `wrong guess ${i}`, address)
+			)
 		);
+		const outcomes = burst.map(outcome);
+		// Only PAIR_ATTEMPTS attempts reached the password check; the rest were refused before it.
+		expect(outcomes.filter((o) => o !== 429)).toHaveLength(PAIR_ATTEMPTS);
+		expect(outcomes.filter((o) => o === 429)).toHaveLength(30 - PAIR_ATTEMPTS);
+		expect((await signIn(email, password, address)).ok).toBe(false);
 	});
 
-	it('clears the account counter after a successful sign-in', async () => {
-		const email = `forgetful.${Date.now()}@example.test`;
-		for (let i = 0; i < ACCOUNT_ATTEMPTS - 1; i++) await recordFailedSignIn(email, '192.0.2.7');
-		await recordSuccessfulSignIn(email);
-		await recordFailedSignIn(email, '192.0.2.8');
-		expect((await checkSignInAllowed(email, '192.0.2.8')).allowed).toBe(true);
+	it('keeps a stranger’s lock-out to their own address: the holder still signs in', async () => {
+		const email = await account();
+		for (let i = 0; i < PAIR_ATTEMPTS; i++) await signIn(email, 'guess', '198.51.100.7');
+		expect(outcome(await signIn(email, password, '198.51.100.7'))).toBe(429);
+		expect(outcome(await signIn(email.toUpperCase(), password, '192.0.2.44'))).toBe('ok');
+	});
+
+	it('locks the account across addresses at the slower limit, and the reset link opens it again', async () => {
+		const email = await account();
+		for (let i = 0; i < ACCOUNT_ATTEMPTS; i++) {
+			expect(outcome(await signIn(email, 'guess', `10.1.${i}.1`))).toBe(400);
+		}
+		expect(outcome(await signIn(email, password, '192.0.2.45'))).toBe(429);
+
+		await requestPasswordReset(email, '192.0.2.45');
+		const [mail] = await db
+			.select({ text: emailOutbox.text })
+			.from(emailOutbox)
+			.where(eq(emailOutbox.toAddress, email))
+			.orderBy(emailOutbox.createdAt)
+			.then((rows) => rows.slice(-1));
+		const token = mail?.text.match(/token=([A-Za-z0-9_-]+)/)?.[1];
+		expect(token).toBeDefined();
+		expect(await resetPassword(token!, 'a brand new passphrase')).toBe(true);
+		expect(outcome(await signIn(email, 'a brand new passphrase', '192.0.2.45'))).toBe('ok');
+	});
+
+	it('locks an address that sprays many accounts, not other addresses', async () => {
+		const address = `198.51.100.${Date.now() % 250}`;
+		for (let i = 0; i < ADDRESS_ATTEMPTS; i++) {
+			await signIn(`spray${i}.${Date.now()}@example.test`, 'guess', address);
+		}
+		expect(outcome(await signIn('someone.else@example.test', 'guess', address))).toBe(429);
+		expect(outcome(await signIn('someone.else@example.test', 'guess', '203.0.113.1'))).toBe(400);
+	});
+
+	it('starts the pair count again after a right password', async () => {
+		const email = await account();
+		for (let i = 0; i < PAIR_ATTEMPTS - 1; i++) await signIn(email, 'guess', '192.0.2.7');
+		expect(outcome(await signIn(email, password, '192.0.2.7'))).toBe('ok');
+		for (let i = 0; i < PAIR_ATTEMPTS - 1; i++) {
+			expect(outcome(await signIn(email, 'guess', '192.0.2.7'))).toBe(400);
+		}
 	});
 });

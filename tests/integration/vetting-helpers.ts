@@ -18,7 +18,8 @@ export async function makeAccount(role: Role, label = role) {
 		email,
 		passwordHash: 'not-used-in-these-tests',
 		role,
-		displayName: `${label} ${n}`
+		displayName: `${label} ${n}`,
+		emailVerifiedAt: new Date()
 	});
 	return { id, email };
 }

@@ -11,6 +11,13 @@ import { appUrl } from './mail/app-url';
 import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { hashPassword, verifyPassword } from './password';
+import {
+	clearSignInLimits,
+	consumeResetRequest,
+	consumeSignInAttempt,
+	consumeSignUpNotice,
+	recordSuccessfulSignIn
+} from './rate-limit';
 
 const VERIFY_TTL_MS = 48 * 3600_000;
 const RESET_TTL_MS = 3600_000;
@@ -37,7 +44,18 @@ export const normaliseEmail = (email: string) => email.trim().toLowerCase();
 
 const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
+/** Ends every unused link of this purpose for the account: only the newest one ever works. */
+async function endUnusedTokens(tx: Tx, userId: string, purpose: TokenPurpose) {
+	await tx
+		.update(emailToken)
+		.set({ usedAt: new Date() })
+		.where(
+			and(eq(emailToken.userId, userId), eq(emailToken.purpose, purpose), isNull(emailToken.usedAt))
+		);
+}
+
 async function issueToken(tx: Tx, userId: string, purpose: TokenPurpose, ttlMs: number) {
+	await endUnusedTokens(tx, userId, purpose);
 	const token = randomBytes(32).toString('base64url');
 	await tx.insert(emailToken).values({
 		tokenHash: hashToken(token),
@@ -72,16 +90,19 @@ export interface NewAccount {
 }
 
 /**
- * Creates an owner or installer account and queues the verification e-mail.
- * Refuses (409, on the e-mail field) an address that already has an account.
+ * Creates an owner or installer account and queues the verification e-mail. An address that
+ * already has an account gets an e-mail saying someone tried to sign up with it (at most a few an
+ * hour), and nothing else changes. The caller must answer both cases alike (say "check your
+ * inbox", start no session), so sign-up cannot tell anyone which addresses have accounts.
+ * @returns the new account, or null when the address was taken
  */
 export async function createAccount(
 	input: NewAccount
-): Promise<{ ok: true; user: AccountSummary } | Refusal> {
+): Promise<{ ok: true; user: AccountSummary | null }> {
 	const email = normaliseEmail(input.email);
 	const passwordHash = await hashPassword(input.password);
-	return withMail(async (tx, mail) => {
-		const [created] = await tx
+	const created = await withMail(async (tx, mail) => {
+		const [made] = await tx
 			.insert(user)
 			.values({
 				id: crypto.randomUUID(),
@@ -97,14 +118,23 @@ export async function createAccount(
 				role: user.role,
 				displayName: user.displayName
 			});
-		if (!created) return emailTaken();
-		const token = await issueToken(tx, created.id, 'verify-email', VERIFY_TTL_MS);
+		if (!made) return null;
+		const token = await issueToken(tx, made.id, 'verify-email', VERIFY_TTL_MS);
 		await mail.send(email, {
 			template: 'verify-email',
-			data: { displayName: created.displayName, url: appUrl(`/verify-email?token=${token}`) }
+			data: { displayName: made.displayName, url: appUrl(`/verify-email?token=${token}`) }
 		});
-		return { ok: true as const, user: created };
+		return made;
 	});
+	if (!created && (await consumeSignUpNotice(email)).allowed) {
+		await withMail(async (_tx, mail) => {
+			await mail.send(email, {
+				template: 'sign-up-existing',
+				data: { signInUrl: appUrl('/sign-in'), resetUrl: appUrl('/forgot-password') }
+			});
+		});
+	}
+	return { ok: true, user: created };
 }
 
 // A real argon2id hash of a random string: checking against it when the account does not exist
@@ -136,13 +166,44 @@ export async function authenticate(
 	return summary;
 }
 
-/** Marks the address of the token's account verified; false for an unknown, used or expired token. */
-export async function verifyEmailToken(token: string): Promise<boolean> {
+/** Why a sign-in did not go through, in the same words whichever part was wrong. */
+export const SIGN_IN_MISMATCH = 'That e-mail and password do not match an account.';
+
+/**
+ * Signs in with throttling: the attempt is taken from the allowances (`consumeSignInAttempt`,
+ * atomic) before the password is checked, so parallel guesses cannot outrun the count.
+ * @param address the client's address, for the per-address and per-(account, address) limits
+ */
+export async function signIn(
+	email: string,
+	password: string,
+	address: string
+): Promise<{ ok: true; account: AccountSummary } | Refusal> {
+	const gate = await consumeSignInAttempt(email, address);
+	if (!gate.allowed) {
+		const minutes = Math.ceil(gate.retryAfterSeconds / 60);
+		return refuse(
+			429,
+			`Too many sign-in attempts. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or reset your password: the link in the e-mail always works.`
+		);
+	}
+	const account = await authenticate(email, password);
+	if (!account) return refuse(400, SIGN_IN_MISMATCH);
+	await recordSuccessfulSignIn(email, address);
+	return { ok: true, account };
+}
+
+/**
+ * Marks the address of the token's account verified.
+ * @returns the account's id (the link proves control of the mailbox, so the page may sign it
+ * in), or null for an unknown, used or expired token
+ */
+export async function verifyEmailToken(token: string): Promise<string | null> {
 	return db.transaction(async (tx) => {
 		const userId = await takeToken(tx, token, 'verify-email');
-		if (!userId) return false;
+		if (!userId) return null;
 		await tx.update(user).set({ emailVerifiedAt: new Date() }).where(eq(user.id, userId));
-		return true;
+		return userId;
 	});
 }
 
@@ -164,10 +225,23 @@ export async function resendVerification(userId: string): Promise<boolean> {
 }
 
 /**
- * Queues a reset link when the address has an account. Says nothing either way to the caller's
- * visitor, so the form cannot be used to find out who has an account.
+ * Queues a reset link when the address has an account, ending every earlier unused one. Says
+ * nothing either way to the caller's visitor, so the form cannot be used to find out who has an
+ * account; requests are limited per client address and per address typed (known or not).
+ * @param address the client's address
  */
-export async function requestPasswordReset(email: string): Promise<void> {
+export async function requestPasswordReset(
+	email: string,
+	address: string
+): Promise<{ ok: true } | Refusal> {
+	const gate = await consumeResetRequest(email, address);
+	if (!gate.allowed) {
+		const minutes = Math.ceil(gate.retryAfterSeconds / 60);
+		return refuse(
+			429,
+			`Too many reset requests. Use the newest link we sent, or wait ${minutes} minute${minutes === 1 ? '' : 's'} and ask again.`
+		);
+	}
 	await withMail(async (tx, mail) => {
 		const [found] = await tx
 			.select({ id: user.id, email: user.email, displayName: user.displayName })
@@ -180,20 +254,28 @@ export async function requestPasswordReset(email: string): Promise<void> {
 			data: { displayName: found.displayName, url: appUrl(`/reset-password?token=${token}`) }
 		});
 	});
+	return { ok: true };
 }
 
 /** Sets a new password from a reset token and signs the account out everywhere. */
 export async function resetPassword(token: string, newPassword: string): Promise<boolean> {
 	const passwordHash = await hashPassword(newPassword);
-	const userId = await db.transaction(async (tx) => {
+	const changed = await db.transaction(async (tx) => {
 		const id = await takeToken(tx, token, 'reset-password');
 		if (!id) return null;
+		await endUnusedTokens(tx, id, 'reset-password');
 		// A working reset link proves control of the mailbox, so it verifies the address too.
-		await tx.update(user).set({ passwordHash, emailVerifiedAt: new Date() }).where(eq(user.id, id));
-		return id;
+		const [row] = await tx
+			.update(user)
+			.set({ passwordHash, emailVerifiedAt: new Date() })
+			.where(eq(user.id, id))
+			.returning({ email: user.email });
+		return row ? { id, email: row.email } : null;
 	});
-	if (!userId) return false;
-	await endAllSessions(userId);
+	if (!changed) return false;
+	await endAllSessions(changed.id);
+	// Whoever was guessing this account's password no longer keeps its holder out.
+	await clearSignInLimits(changed.email);
 	return true;
 }
 

@@ -9,12 +9,15 @@
 import { and, eq, gt, inArray, lte, ne, or, type SQL } from 'drizzle-orm';
 import { formatSlotLabel } from '$lib/schedule';
 import { formatInZone } from '$lib/time';
+import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, quote, user } from './db/schema';
 import { appUrl } from './mail/app-url';
 import { withMail, type Mail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { titleOrUntitled } from '$lib/posted-job';
+import { canQuote } from '$lib/vetting';
+import { INSTALLER_ON_HOLD_TEXT } from '$lib/labels';
 
 /** How long a provisional booking holds the installer's slot while the owner pays (Tapline's choice). */
 export const HOLD_MINUTES = 30;
@@ -46,12 +49,33 @@ export async function bookQuote(
 ): Promise<BookingOutcome> {
 	try {
 		return await withMail(async (tx, mail) => {
+			// The installer's standing is read under a share lock taken before the job's lock, in
+			// the order quoting and vetting decisions lock (profile, then job, then quote): a
+			// suspension or pause in progress finishes first, and one arriving later waits for
+			// this booking, which it then sees and handles.
+			const [owner] = await tx
+				.select({ installerId: quote.installerId })
+				.from(quote)
+				.innerJoin(job, and(eq(job.id, quote.jobId), eq(job.ownerId, ownerId)))
+				.where(and(eq(quote.id, quoteId), eq(quote.jobId, jobId)));
+			if (!owner) return refuse(404, 'There is no such quote on your jobs.');
+			const [standing] = await tx
+				.select({
+					vettingStatus: installerProfile.vettingStatus,
+					pausedReason: installerProfile.pausedReason
+				})
+				.from(installerProfile)
+				.where(eq(installerProfile.userId, owner.installerId))
+				.for('share');
+			if (!standing || !canQuote(standing)) return refuse(409, INSTALLER_ON_HOLD_TEXT);
 			const [locked] = await tx
 				.select()
 				.from(job)
 				.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
 				.for('update');
 			if (!locked) return refuse(404, 'There is no such quote on your jobs.');
+			const unconfirmed = await unconfirmedEmail(tx, ownerId);
+			if (unconfirmed) return unconfirmed;
 			// An expired hold on this very job must not keep it booked.
 			const lapsedHere = await lapseHolds(tx, mail, eq(booking.jobId, jobId), now);
 			const status = lapsedHere > 0 ? 'collecting_quotes' : locked.status;

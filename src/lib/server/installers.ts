@@ -2,7 +2,7 @@
  * Installers' own records: the application, insurance details, service area, the status page,
  * submitting for vetting and the public profile.
  */
-import { and, count, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { and, count, desc, eq, gt, inArray, isNull } from 'drizzle-orm';
 import {
 	isProfilePublic,
 	missingParts,
@@ -11,7 +11,8 @@ import {
 	type DocumentViewer,
 	type VettingStage
 } from '$lib/vetting';
-import { db } from './db';
+import { unconfirmedEmail } from './confirmed-email';
+import { db, type Tx } from './db';
 import { installerHours, installerProfile, vettingEvent, type InstallerProfile } from './db/schema';
 import { documentKinds, listInstallerDocuments } from './documents';
 import { withMail } from './mail/outbox';
@@ -216,9 +217,55 @@ export interface ServiceAreaInput {
 /** Saves the base point, radius and travel fee; false when there is no profile yet. */
 export async function saveServiceArea(
 	installerId: string,
-	input: ServiceAreaInput
-): Promise<boolean> {
-	const rows = await db
+	input: ServiceAreaInput,
+	now = new Date()
+): Promise<{ ok: true } | Refusal> {
+	return db.transaction(async (tx) => {
+		const row = await lockProfile(tx, installerId);
+		if (!row) return refuse(409, 'Fill in the application first.');
+		const p = row.profile;
+		const moved =
+			p.latitude !== input.latitude ||
+			p.longitude !== input.longitude ||
+			p.serviceRadiusKm !== input.serviceRadiusKm;
+		// Each move of a sent application's base or radius is a vetting event, and a few a day is
+		// plenty for a real business: more would only serve to probe where jobs are.
+		if (moved && p.submittedAt !== null) {
+			const [recent] = await tx
+				.select({ n: count() })
+				.from(vettingEvent)
+				.where(
+					and(
+						eq(vettingEvent.installerId, installerId),
+						eq(vettingEvent.action, 'service-area-moved'),
+						gt(vettingEvent.createdAt, new Date(now.getTime() - 86_400_000))
+					)
+				);
+			if ((recent?.n ?? 0) >= SERVICE_AREA_MOVES_PER_DAY) {
+				return refuse(
+					429,
+					`You can move your service area ${String(SERVICE_AREA_MOVES_PER_DAY)} times in 24 hours. Try again tomorrow, or ask the admin team.`
+				);
+			}
+			await recordEvent(tx, {
+				installerId,
+				actorId: installerId,
+				action: 'service-area-moved',
+				fromStatus: p.vettingStatus,
+				toStatus: p.vettingStatus,
+				reason: `${input.place?.suburb ?? p.suburb}, ${String(input.serviceRadiusKm)} km`
+			});
+		}
+		await saveServiceAreaRow(tx, installerId, input);
+		return { ok: true as const };
+	});
+}
+
+/** Service-area moves a sent application may make in 24 hours (Tapline's choice). */
+export const SERVICE_AREA_MOVES_PER_DAY = 3;
+
+async function saveServiceAreaRow(tx: Tx, installerId: string, input: ServiceAreaInput) {
+	await tx
 		.update(installerProfile)
 		.set({
 			latitude: input.latitude,
@@ -229,9 +276,7 @@ export async function saveServiceArea(
 			...(input.place ? { suburb: input.place.suburb, postcode: input.place.postcode } : {}),
 			updatedAt: new Date()
 		})
-		.where(eq(installerProfile.userId, installerId))
-		.returning({ id: installerProfile.userId });
-	return rows.length > 0;
+		.where(eq(installerProfile.userId, installerId));
 }
 
 /** Everything the installer's status page shows. */
@@ -293,6 +338,8 @@ export async function submitApplication(installerId: string): Promise<VettingOut
 	return withMail(async (tx, mail) => {
 		const row = await lockProfile(tx, installerId);
 		if (!row) return refuse(409, 'Fill in the application first.');
+		const unconfirmed = await unconfirmedEmail(tx, installerId);
+		if (unconfirmed) return unconfirmed;
 		const stage = stageOf(row.profile);
 		const to = nextStatus(stage, 'submit');
 		if (!to) return refuse(409, 'This application has already been sent.');

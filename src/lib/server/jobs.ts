@@ -12,6 +12,7 @@ import {
 	type PhotoKind,
 	type TimeWindow
 } from '$lib/forms/job';
+import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
 import { job, jobPhoto, quote, type Job } from './db/schema';
 import { isRefusal, NOT_YOUR_JOB, refuse, type Refusal } from './refusal';
@@ -125,6 +126,8 @@ export async function postJob(
 	return db.transaction(async (tx) => {
 		const locked = await lockEditable(tx, jobId, ownerId);
 		if (isRefusal(locked)) return locked;
+		const unconfirmed = await unconfirmedEmail(tx, ownerId);
+		if (unconfirmed) return unconfirmed;
 		const problems = draftProblems(locked, now);
 		if (problems.length > 0) {
 			// Each problem names the step that fixes it.

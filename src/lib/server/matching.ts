@@ -88,7 +88,7 @@ export async function findInstallersForJob(
 ) {
 	const reach = jobReach(jobRow);
 	if (!reach) return [];
-	const box = boundingBox(reach.location, MAX_SERVICE_RADIUS_KM);
+	const box = boundingBox(reach.location, MAX_SERVICE_RADIUS_KM + CELL_HALF_DIAGONAL_KM);
 	const rows = await db
 		.select({ profile: installerProfile, email: user.email, displayName: user.displayName })
 		.from(installerProfile)
@@ -172,6 +172,22 @@ export const boardQuerySchema = z.object({
 });
 export type BoardQuery = z.output<typeof boardQuerySchema>;
 
+/**
+ * Offering goes by a job's 1 km grid-cell centre, which lies within the cell's half-diagonal
+ * (≈ 0.71 km, see snapToGrid) of its exact point; the SQL boxes on the exact columns are widened
+ * by this much so no job whose centre qualifies is cut off by its exact point.
+ */
+const CELL_HALF_DIAGONAL_KM = 0.75;
+/** The same margin for a map's bounds, in degrees (0.02° ≥ 1.8 km in longitude at Adelaide's latitude). */
+const MAP_BOUNDS_MARGIN_DEGREES = 0.02;
+
+const widen = (b: BoundingBox, by: number): BoundingBox => ({
+	minLat: b.minLat - by,
+	maxLat: b.maxLat + by,
+	minLng: b.minLng - by,
+	maxLng: b.maxLng + by
+});
+
 function intersect(a: BoundingBox, b: BoundingBox): BoundingBox | null {
 	const box = {
 		minLat: Math.max(a.minLat, b.minLat),
@@ -196,8 +212,8 @@ function summarise(row: Pick<Job, 'scope'>): string {
  * board shows. The SQL box is the service circle's bounding box, cut down to the map's bounds.
  */
 export async function listOfferedJobs(installer: InstallerContext, box?: BoundingBox) {
-	const circleBox = boundingBox(installer.base, installer.serviceRadiusKm);
-	const searchBox = box ? intersect(circleBox, box) : circleBox;
+	const circleBox = boundingBox(installer.base, installer.serviceRadiusKm + CELL_HALF_DIAGONAL_KM);
+	const searchBox = box ? intersect(circleBox, widen(box, MAP_BOUNDS_MARGIN_DEGREES)) : circleBox;
 	if (!searchBox) return [];
 	const liveQuotes = db.$count(quote, and(eq(quote.jobId, job.id), eq(quote.status, 'live')));
 	const rows = await db
@@ -362,14 +378,16 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 		problem,
 		myQuote: myQuote ?? null,
 		booking: mine ?? null,
-		// Only once booked with this installer: who and where exactly.
-		revealed: mine
-			? {
-					ownerName: row.ownerName,
-					addressLine: j.addressLine,
-					exact: { lat: reach.location.lat, lng: reach.location.lng } satisfies LatLng
-				}
-			: null
+		// Only once a booking with this installer is confirmed by payment: who and where exactly.
+		// A provisional booking reveals nothing; its hold may lapse and the job open again.
+		revealed:
+			mine?.status === 'confirmed'
+				? {
+						ownerName: row.ownerName,
+						addressLine: j.addressLine,
+						exact: { lat: reach.location.lat, lng: reach.location.lng } satisfies LatLng
+					}
+				: null
 	};
 }
 

@@ -61,6 +61,7 @@ async function registerWork(boss: PgBoss): Promise<void> {
 		async (jobs) => {
 			for (const job of jobs) {
 				const result = await deliverEmail(job.data.id);
+				// A temporary failure throws so pg-boss retries; 'failed' (permanent) does not.
 				if (typeof result === 'object') throw new Error(result.error);
 			}
 		}

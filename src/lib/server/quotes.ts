@@ -28,6 +28,7 @@ import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
 import { titleOrUntitled } from '$lib/posted-job';
+import { canQuote } from '$lib/vetting';
 
 /** What an installer sends, in GST-inclusive cents and UTC instants. */
 export interface QuoteInput {
@@ -228,7 +229,9 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
 			quote,
 			businessName: installerProfile.businessName,
 			suburb: installerProfile.suburb,
-			timeZone: installerProfile.timeZone
+			timeZone: installerProfile.timeZone,
+			vettingStatus: installerProfile.vettingStatus,
+			pausedReason: installerProfile.pausedReason
 		})
 		.from(quote)
 		.innerJoin(installerProfile, eq(installerProfile.userId, quote.installerId))
@@ -246,6 +249,8 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
 		businessName: r.businessName,
 		suburb: r.suburb,
 		installerTimeZone: r.timeZone,
+		// A paused (or suspended) installer's open quote stays on file but cannot be booked.
+		onHold: r.quote.status === 'live' && !canQuote(r),
 		// Confirmed (paid) bookings: the honest count of fits Tapline has seen them take on.
 		fitsCompleted: fits.filter((f) => f.installerId === r.quote.installerId).length,
 		// No reviews exist yet; the ranking uses its stated prior for everyone.

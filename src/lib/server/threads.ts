@@ -3,8 +3,10 @@
  * masked until the job is booked with that installer.
  */
 import { and, asc, eq, inArray } from 'drizzle-orm';
+import { canQuote } from '$lib/vetting';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { matchProblem, reachOf } from '$lib/matching';
+import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, jobMessage, quote, user } from './db/schema';
 import { threadMessageSchema } from '$lib/forms/thread';
@@ -48,7 +50,7 @@ async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: stri
 		.from(quote)
 		.where(and(eq(quote.jobId, jobId), eq(quote.installerId, installerId)));
 	const [bookedWith] = await tx
-		.select({ id: booking.id })
+		.select({ id: booking.id, status: booking.status })
 		.from(booking)
 		.where(
 			and(
@@ -69,9 +71,12 @@ async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: stri
 		...row,
 		businessName: profile.businessName,
 		installerEmail: profile.email,
-		installerMayWrite: offered || Boolean(hasQuote) || Boolean(bookedWith),
+		// A paused or suspended installer may still talk about a job booked with them, nothing else.
+		installerMayWrite: Boolean(bookedWith) || (canQuote(p) && (offered || Boolean(hasQuote))),
+		installerPaused: !canQuote(p),
 		hasQuote: Boolean(hasQuote),
-		booked: Boolean(bookedWith)
+		// Contact details pass unmasked only once the booking is confirmed by payment.
+		booked: bookedWith?.status === 'confirmed'
 	};
 }
 
@@ -79,8 +84,8 @@ export type MessageOutcome = { ok: true; masked: MaskedKind[] } | Refusal;
 
 /**
  * Adds a message to the thread between a job's owner and one installer, masking phone numbers,
- * e-mail addresses and links (see CONTACT_PATTERNS) unless the job is booked with that installer,
- * and e-mails the other side.
+ * e-mail addresses and links (see CONTACT_PATTERNS) unless a booking with that installer is
+ * confirmed by payment, and e-mails the other side.
  * @param author who writes: the job's owner or the installer of the thread
  */
 export async function postJobMessage(
@@ -100,8 +105,15 @@ export async function postJobMessage(
 		const isOwner = author.role === 'owner' && author.id === access.ownerId;
 		const isInstaller = author.role === 'installer' && author.id === installerId;
 		if (!isOwner && !isInstaller) return refuse(404, 'There is no such job.');
+		const unconfirmed = await unconfirmedEmail(tx, author.id);
+		if (unconfirmed) return unconfirmed;
 		if (isInstaller && !access.installerMayWrite) {
-			return refuse(403, 'This job is no longer open to you.');
+			return refuse(
+				403,
+				access.installerPaused
+					? 'Your quoting is paused, so you cannot send questions to owners until it is lifted.'
+					: 'This job is no longer open to you.'
+			);
 		}
 		if (isOwner && !access.hasQuote) {
 			const [asked] = await tx

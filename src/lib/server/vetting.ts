@@ -3,7 +3,7 @@
  * and the daily insurance-expiry check. Every decision locks the installer's profile row, checks
  * the standing the admin saw, writes the audit event and queues the e-mail in one transaction.
  */
-import { and, asc, count, desc, eq, isNotNull, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, isNotNull, sql, type SQL } from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
 import { isValidAbn } from '$lib/abn';
 import {
@@ -27,6 +27,8 @@ import { documentKinds, listInstallerDocuments } from './documents';
 import {
 	installerProfile,
 	insuranceReminder,
+	job,
+	quote,
 	user,
 	vettingEvent,
 	type InstallerProfile,
@@ -34,7 +36,8 @@ import {
 } from './db/schema';
 import { DECISION_LABELS } from '$lib/labels';
 import { appUrl } from './mail/app-url';
-import { withMail } from './mail/outbox';
+import { withMail, type Mail } from './mail/outbox';
+import { titleOrUntitled } from '$lib/posted-job';
 import { refuse, type Refusal } from './refusal';
 import type { EmailTemplate, VettingMailData } from './mail/templates';
 
@@ -74,7 +77,7 @@ export async function recordEvent(
 	event: {
 		installerId: string;
 		actorId: string | null;
-		action: VettingAction | 'insurance-updated';
+		action: VettingAction | 'insurance-updated' | 'service-area-moved';
 		fromStatus: VettingStatus | null;
 		toStatus: VettingStatus | null;
 		reason?: string | null;
@@ -191,8 +194,43 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
 			checklist: input.decision === 'approve' ? input.checklist : null
 		});
 		await mail.send(row.email, decisionEmail(input.decision, mailData(row), message));
+		if (input.decision === 'suspend') await withdrawLiveQuotes(tx, mail, row.profile);
 		return { ok: true };
 	});
+}
+
+/**
+ * Withdraws a suspended installer's open quotes and tells each owner, in the suspension's
+ * transaction (the profile row is locked, so no quote or booking of theirs slips in between).
+ */
+async function withdrawLiveQuotes(tx: Tx, mail: Mail, profile: InstallerProfile) {
+	const withdrawn = await tx
+		.update(quote)
+		.set({ status: 'withdrawn', updatedAt: new Date() })
+		.where(and(eq(quote.installerId, profile.userId), eq(quote.status, 'live')))
+		.returning({ jobId: quote.jobId });
+	if (withdrawn.length === 0) return;
+	const owners = await tx
+		.select({ jobId: job.id, title: job.title, email: user.email, displayName: user.displayName })
+		.from(job)
+		.innerJoin(user, eq(user.id, job.ownerId))
+		.where(
+			inArray(
+				job.id,
+				withdrawn.map((w) => w.jobId)
+			)
+		);
+	for (const owner of owners) {
+		await mail.send(owner.email, {
+			template: 'quote-withdrawn-suspended',
+			data: {
+				displayName: owner.displayName,
+				businessName: profile.businessName,
+				title: titleOrUntitled(owner.title),
+				url: appUrl(`/owner/jobs/${owner.jobId}/quotes`)
+			}
+		});
+	}
 }
 
 export const QUEUE_PAGE_SIZE = 20;

@@ -75,6 +75,12 @@ export async function newAccount(browser: Browser, role: 'owner' | 'installer', 
 		[email]
 	);
 	if (!row) throw new Error(`no account for ${email}`);
+	// Sign-up starts no session (it answers a taken address alike); sign in as the user would.
+	const signedIn = await postForm(context.request, '/sign-in', {
+		email,
+		password: 'long enough passphrase'
+	});
+	expect(signedIn.status()).toBe(303);
 	return { context, request: context.request, email, id: row.id };
 }
 

@@ -46,6 +46,17 @@ export function signInUrl(url: URL) {
 }
 
 /**
+ * As {@link requireRole}, for actions that need a confirmed e-mail address (posting a job,
+ * booking, messaging, applying): an unconfirmed user goes to the confirmation page, which says
+ * why and offers a new link.
+ */
+export function requireConfirmedRole(...roles: Role[]): SessionUser {
+	const user = requireRole(...roles);
+	if (!user.emailVerified) redirect(303, '/verify-email?needed=1');
+	return user;
+}
+
+/**
  * The signed-in user, if they hold one of the roles; otherwise redirects to sign-in (no session)
  * or fails with 403 (wrong role). Call it at the top of every load and action that needs a role.
  */

@@ -12,7 +12,7 @@ import nodemailer, { type Transporter } from 'nodemailer';
 import { env } from '$env/dynamic/private';
 import { requestEmailDelivery } from '../boss';
 import { db, type Tx } from '../db';
-import { emailOutbox } from '../db/schema';
+import { emailOutbox, user } from '../db/schema';
 import { renderEmail, type EmailTemplate } from './templates';
 
 /** After this many failed attempts a message stays in the outbox for an admin to look at. */
@@ -73,14 +73,25 @@ export async function queueEmail(tx: Tx, to: string, message: EmailTemplate): Pr
 	return row.id;
 }
 
-export type DeliveryResult = 'sent' | 'skipped' | { error: string };
+/**
+ * 'failed' is a permanent rejection (an SMTP 5xx reply): the row is given up at once (attempts set
+ * to {@link MAX_DELIVERY_ATTEMPTS}) and every admin is told, since retrying cannot help.
+ */
+export type DeliveryResult = 'sent' | 'skipped' | 'failed' | { error: string };
+
+/** The SMTP reply code of a failed send (nodemailer's `responseCode`), if the server gave one. */
+function smtpReplyCode(err: unknown): number | undefined {
+	const code = (err as { responseCode?: unknown } | null)?.responseCode;
+	return typeof code === 'number' ? code : undefined;
+}
 
 /**
  * Sends one outbox message if it is still unsent and no other worker holds it.
- * Returns the error (after recording it) instead of throwing, so the attempt is counted.
+ * Returns the error (after recording it) instead of throwing, so the attempt is counted; a
+ * permanent rejection (5xx, RFC 5321 section 4.2.1) is not retried and is reported to the admins.
  */
 export async function deliverEmail(id: string): Promise<DeliveryResult> {
-	return db.transaction(async (tx) => {
+	return withMail(async (tx, mail) => {
 		const [row] = await tx
 			.select()
 			.from(emailOutbox)
@@ -98,6 +109,21 @@ export async function deliverEmail(id: string): Promise<DeliveryResult> {
 			});
 		} catch (err) {
 			const message = err instanceof Error ? err.message : String(err);
+			const code = smtpReplyCode(err);
+			if (code !== undefined && code >= 500 && code <= 599) {
+				await tx
+					.update(emailOutbox)
+					.set({
+						attempts: MAX_DELIVERY_ATTEMPTS,
+						lastError: `Permanent rejection: ${message}`.slice(0, 500)
+					})
+					.where(eq(emailOutbox.id, id));
+				// A notice that itself bounces is not reported again: no loop between admins.
+				if (row.template !== 'email-undeliverable') {
+					await tellAdmins(tx, mail, { to: row.toAddress, subject: row.subject, reason: message });
+				}
+				return 'failed';
+			}
 			await tx
 				.update(emailOutbox)
 				.set({ attempts: sql`${emailOutbox.attempts} + 1`, lastError: message.slice(0, 500) })
@@ -110,6 +136,29 @@ export async function deliverEmail(id: string): Promise<DeliveryResult> {
 			.where(eq(emailOutbox.id, id));
 		return 'sent';
 	});
+}
+
+/** E-mails every admin that a message could not be delivered. */
+async function tellAdmins(
+	tx: Tx,
+	mail: Mail,
+	failed: { to: string; subject: string; reason: string }
+): Promise<void> {
+	const admins = await tx
+		.select({ email: user.email, displayName: user.displayName })
+		.from(user)
+		.where(eq(user.role, 'admin'));
+	for (const admin of admins) {
+		await mail.send(admin.email, {
+			template: 'email-undeliverable',
+			data: {
+				displayName: admin.displayName,
+				to: failed.to,
+				subject: failed.subject,
+				reason: failed.reason.slice(0, 300)
+			}
+		});
+	}
 }
 
 /** Unsent messages older than `olderThanMs` that have not given up: what the sweeper re-queues. */

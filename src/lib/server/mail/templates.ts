@@ -11,6 +11,11 @@ export type { RenderedEmail };
 export type EmailTemplate =
 	| { template: 'verify-email'; data: { displayName: string; url: string } }
 	| { template: 'reset-password'; data: { displayName: string; url: string } }
+	| { template: 'sign-up-existing'; data: { signInUrl: string; resetUrl: string } }
+	| {
+			template: 'email-undeliverable';
+			data: { displayName: string; to: string; subject: string; reason: string };
+	  }
 	| { template: 'admin-invite'; data: { displayName: string; invitedBy: string; url: string } }
 	| { template: 'vetting-received'; data: VettingMailData }
 	| { template: 'vetting-more-info'; data: VettingMailData & { message: string } }
@@ -24,6 +29,10 @@ export type EmailTemplate =
 	  }
 	| { template: 'insurance-paused'; data: VettingMailData & { reason: string } }
 	| { template: 'insurance-approved'; data: VettingMailData }
+	| {
+			template: 'quote-withdrawn-suspended';
+			data: { displayName: string; businessName: string; title: string; url: string };
+	  }
 	| MarketplaceEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
@@ -65,6 +74,25 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 				action: { label: 'Choose a new password', url: message.data.url },
 				footnote:
 					'The link works for one hour and only once. If you did not ask, ignore this message: your password stays as it is.'
+			});
+		case 'sign-up-existing':
+			return renderBlock('Someone tried to sign up to Tapline with your address', {
+				heading: 'You already have a Tapline account',
+				paragraphs: [
+					'Someone (perhaps you) tried to create a Tapline account with this e-mail address, which already has one. We did not create a second account or change anything.',
+					'If it was you, sign in instead. If you do not remember the password, reset it from the sign-in page.'
+				],
+				action: { label: 'Sign in', url: message.data.signInUrl },
+				footnote: `Forgot your password? Choose a new one: ${message.data.resetUrl}. If it was not you, ignore this message: your account stays as it is.`
+			});
+		case 'email-undeliverable':
+			return renderBlock(`An e-mail to ${message.data.to} could not be delivered`, {
+				heading: `Hi ${message.data.displayName}, one message was refused for good`,
+				paragraphs: [
+					`The receiving mail server permanently refused “${message.data.subject}” to ${message.data.to}, so Tapline will not try it again.`,
+					`It said: ${message.data.reason}`,
+					'Check the address with the person (it may be mistyped or closed) and help them update it.'
+				]
 			});
 		case 'admin-invite':
 			return renderBlock('You have been made a Tapline admin', {
@@ -158,6 +186,15 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 					`An admin checked the new certificate for ${message.data.businessName}. The pause is lifted.`
 				],
 				action: { label: 'Go to my work', url: message.data.url }
+			});
+		case 'quote-withdrawn-suspended':
+			return renderBlock(`A quote for your ${message.data.title} was withdrawn`, {
+				heading: `Hi ${message.data.displayName}, one quote is no longer open`,
+				paragraphs: [
+					`${message.data.businessName} can no longer take work through Tapline, so we withdrew their quote for your ${message.data.title}.`,
+					'Your job stays open to the other vetted installers in your area; their quotes are unchanged.'
+				],
+				action: { label: 'See my quotes', url: message.data.url }
 			});
 	}
 }

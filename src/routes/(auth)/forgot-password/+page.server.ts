@@ -3,6 +3,7 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { forgotPasswordSchema } from '$lib/forms/auth';
 import { requestPasswordReset } from '$lib/server/accounts';
+import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => ({
@@ -10,10 +11,11 @@ export const load: PageServerLoad = async () => ({
 });
 
 export const actions = {
-	default: async ({ request }) => {
+	default: async ({ request, getClientAddress }) => {
 		const form = await superValidate(request, zod4(forgotPasswordSchema));
 		if (!form.valid) return fail(400, { form });
-		await requestPasswordReset(form.data.email);
+		const requested = await requestPasswordReset(form.data.email, getClientAddress());
+		if (!requested.ok) return refusalMessage(form, requested);
 		// The same words whether or not the address has an account.
 		return message(
 			form,

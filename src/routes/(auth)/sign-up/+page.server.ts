@@ -3,9 +3,7 @@ import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { signUpSchema } from '$lib/forms/auth';
 import { createAccount } from '$lib/server/accounts';
-import { startSession } from '$lib/server/auth';
 import { homeFor } from '$lib/server/http/guards';
-import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
@@ -15,14 +13,14 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 };
 
 export const actions = {
-	default: async ({ request, cookies }) => {
+	default: async ({ request }) => {
 		const form = await superValidate(request, zod4(signUpSchema));
 		const { password } = form.data;
 		form.data.password = ''; // never echo a password back to the page
 		if (!form.valid) return fail(400, { form });
-		const result = await createAccount({ ...form.data, password });
-		if (!result.ok) return refusalMessage(form, result);
-		await startSession(cookies, result.user.id);
+		// The same answer whether or not the address was free: the e-mail says which it was, and
+		// the link in it confirms the address and signs the new account in.
+		await createAccount({ ...form.data, password });
 		redirect(303, '/verify-email?sent=1');
 	}
 } satisfies Actions;

@@ -2,6 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { textField } from '$lib/forms/fields';
 import { resendVerification, verifyEmailToken } from '$lib/server/accounts';
+import { startSession } from '$lib/server/auth';
 import { readFormData } from '$lib/server/http/form-data';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -12,6 +13,7 @@ const confirmSchema = z.object({ token: textField().min(10).max(200) });
 export const load: PageServerLoad = ({ url, locals }) => ({
 	token: url.searchParams.get('token'),
 	sent: url.searchParams.has('sent'),
+	needed: url.searchParams.has('needed'),
 	verified: url.searchParams.has('done') || (locals.user?.emailVerified ?? false),
 	email: locals.user?.email ?? null,
 	// After confirming, the person continues to where their work starts.
@@ -26,13 +28,16 @@ const HOME = {
 } as const;
 
 export const actions = {
-	confirm: async ({ request }) => {
+	confirm: async ({ request, cookies, locals }) => {
 		const parsed = confirmSchema.safeParse(Object.fromEntries((await readFormData(request)) ?? []));
-		if (!parsed.success || !(await verifyEmailToken(parsed.data.token))) {
+		const userId = parsed.success ? await verifyEmailToken(parsed.data.token) : null;
+		if (!userId) {
 			return fail(400, {
 				error: 'This link has expired or was already used. Sign in and ask for a new one.'
 			});
 		}
+		// The link proves the mailbox; sign-up starts no session, so this is where one begins.
+		if (locals.user?.id !== userId) await startSession(cookies, userId);
 		redirect(303, '/verify-email?done=1');
 	},
 	resend: async ({ locals }) => {

@@ -1,4 +1,4 @@
-import { requireRole } from '$lib/server/http/guards';
+import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
 import { refusalFail } from '$lib/server/http/respond';
 import { redirectWithNotice } from '$lib/server/http/notice';
@@ -26,7 +26,7 @@ export const load: PageServerLoad = async () => {
 
 export const actions = {
 	submit: async ({ cookies }) => {
-		const installer = requireRole('installer');
+		const installer = requireConfirmedRole('installer');
 		const result = await submitApplication(installer.id);
 		if (!result.ok) return refusalFail(result);
 		redirectWithNotice(

@@ -5,6 +5,7 @@ import { serviceAreaSchema } from '$lib/forms/vetting';
 import { reversePlace } from '$lib/server/geocoding';
 import { requireRole } from '$lib/server/http/guards';
 import { getInstallerProfile, saveServiceArea } from '$lib/server/installers';
+import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
@@ -50,7 +51,7 @@ export const actions = {
 						longitude: form.data.longitude
 					}
 				: null;
-		await saveServiceArea(installer.id, {
+		const saved = await saveServiceArea(installer.id, {
 			latitude: form.data.latitude,
 			longitude: form.data.longitude,
 			serviceRadiusKm: form.data.serviceRadiusKm,
@@ -60,6 +61,7 @@ export const actions = {
 				: 0,
 			place
 		});
+		if (!saved.ok) return refusalMessage(form, saved);
 		return message(form, `Saved. Your profile shows ${place?.suburb ?? current.suburb}.`);
 	}
 } satisfies Actions;

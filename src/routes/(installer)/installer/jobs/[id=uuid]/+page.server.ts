@@ -2,7 +2,7 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { threadMessageSchema } from '$lib/forms/thread';
-import { requireRole } from '$lib/server/http/guards';
+import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { listJobPhotos } from '$lib/server/jobs';
 import { refusalFail, refusalMessage } from '$lib/server/http/respond';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
@@ -110,6 +110,7 @@ export const actions = {
 		redirect(303, `/installer/jobs/${params.id}`);
 	},
 	ask: async ({ request, params, cookies }) => {
+		requireConfirmedRole('installer');
 		const { installer } = await context();
 		const askForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!askForm.valid) return fail(400, { askForm });

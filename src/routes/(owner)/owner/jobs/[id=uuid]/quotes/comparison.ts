@@ -64,7 +64,8 @@ export function compareQuotes(
 	now = new Date()
 ): ComparisonRow[] {
 	const live = quotes.filter(
-		(q) => q.status === 'live' && (!q.expiresAt || q.expiresAt.getTime() > now.getTime())
+		(q) =>
+			q.status === 'live' && !q.onHold && (!q.expiresAt || q.expiresAt.getTime() > now.getTime())
 	);
 	const ranked = rankQuotes(
 		live.map((q) => ({
@@ -85,7 +86,7 @@ export function compareQuotes(
 			installerId: q.installerId,
 			businessName: q.businessName,
 			suburb: q.suburb,
-			status: q.status === 'live' && rank < 0 ? 'lapsed' : q.status,
+			status: q.onHold ? 'on_hold' : q.status === 'live' && rank < 0 ? 'lapsed' : q.status,
 			revision: q.revision,
 			totalCents: q.totalCents,
 			labourCents: q.labourCents,

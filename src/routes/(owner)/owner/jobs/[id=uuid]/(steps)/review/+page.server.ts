@@ -4,6 +4,7 @@ import type { JobStep } from '$lib/forms/job';
 import { computeScope, jobRequestSchema } from '$lib/scope';
 import { draftProblems, listJobPhotos, postJob } from '$lib/server/jobs';
 import { loadEditableJob } from '../editable-job';
+import { requireConfirmedRole } from '$lib/server/http/guards';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -27,6 +28,7 @@ export const load: PageServerLoad = async ({ params }) => {
 
 export const actions = {
 	post: async ({ params, cookies }) => {
+		requireConfirmedRole('owner');
 		const { owner } = await loadEditableJob(params.id);
 		const result = await postJob(params.id, owner.id);
 		if (!result.ok) {

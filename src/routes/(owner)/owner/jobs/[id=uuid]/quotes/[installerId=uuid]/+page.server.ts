@@ -6,7 +6,7 @@ import { threadMessageSchema } from '$lib/forms/thread';
 import { textField } from '$lib/forms/fields';
 import { jobStatusShown, quoteStatusShown } from '$lib/holds';
 import { bookQuote, getLiveBookingForJob, HOLD_MINUTES } from '$lib/server/bookings';
-import { requireRole } from '$lib/server/http/guards';
+import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { getOwnedJob } from '$lib/server/jobs';
 import { refusalMessage } from '$lib/server/http/respond';
 import { formatSlotLabel } from '$lib/schedule';
@@ -54,6 +54,7 @@ export const load: PageServerLoad = async ({ params }) => {
 			businessName: q.businessName,
 			suburb: q.suburb,
 			status: q.status,
+			onHold: q.onHold,
 			revision: q.revision,
 			lines: q.lines,
 			totalCents: q.totalCents,
@@ -73,6 +74,7 @@ export const load: PageServerLoad = async ({ params }) => {
 		bookable:
 			jobStatus === 'collecting_quotes' &&
 			q?.status === 'live' &&
+			!q.onHold &&
 			(!q.expiresAt || q.expiresAt.getTime() > now),
 		holdMinutes: HOLD_MINUTES,
 		messages: messages.map((m) => ({ ...m, mine: m.authorId === owner.id })),
@@ -83,7 +85,7 @@ export const load: PageServerLoad = async ({ params }) => {
 
 export const actions = {
 	book: async ({ request, params }) => {
-		const owner = requireRole('owner');
+		const owner = requireConfirmedRole('owner');
 		const bookForm = await superValidate(request, zod4(bookSchema));
 		if (!bookForm.valid) return fail(400, { bookForm });
 		const result = await bookQuote(owner.id, params.id, bookForm.data.quoteId, bookForm.data.slot);
@@ -91,7 +93,7 @@ export const actions = {
 		redirect(303, `/owner/bookings/${result.bookingId}`);
 	},
 	reply: async ({ request, params, cookies }) => {
-		const owner = requireRole('owner');
+		const owner = requireConfirmedRole('owner');
 		const replyForm = await superValidate(request, zod4(threadMessageSchema));
 		if (!replyForm.valid) return fail(400, { replyForm });
 		const sent = await postJobMessage(
