@@ -3,6 +3,7 @@
 // only a booking confirmed by payment reveals them.
 import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
+import { MASK_PLACEHOLDER } from '$lib/masking';
 import { db } from '$lib/server/db';
 import { booking, quote, user } from '$lib/server/db/schema';
 import { bookQuote, confirmBooking } from '$lib/server/bookings';
@@ -49,7 +50,7 @@ describe('what a booking reveals to the installer', () => {
 		expect(later).toMatchObject({ ok: true, masked: [] });
 		const thread = await listJobMessages(j.id, installer.id);
 		expect(thread.map((m) => m.body)).toEqual([
-			'Ring me on [hidden until booked]',
+			`Ring me on ${MASK_PLACEHOLDER}`,
 			'Ring me on 0412 345 678'
 		]);
 		const [row] = await db.select().from(booking).where(eq(booking.id, booked.bookingId));
