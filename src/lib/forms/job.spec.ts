@@ -8,23 +8,15 @@ import {
 	vehicleStepSchema,
 	withdrawSchema
 } from './job';
+import { SAMPLE_REQUEST } from '../../../seed/sample-request';
 
 const messages = (r: {
 	success: boolean;
 	error?: { issues: { path: PropertyKey[]; message: string }[] };
 }) => Object.fromEntries((r.error?.issues ?? []).map((i) => [String(i.path[0]), i.message]));
 
-const vehicle = {
-	make: 'Demo',
-	model: 'Hatch',
-	year: '2018',
-	bodyStyle: 'hatchback',
-	fuseFamily: 'mini',
-	batteryType: 'flooded',
-	startStop: false,
-	hybridOrEv: false,
-	curtainAirbags: 'yes'
-};
+// The vehicle step's answers of the shared sample request (other fields are not the step's).
+const vehicle = { ...SAMPLE_REQUEST };
 
 describe('job request steps', () => {
 	it('walks the steps in order and stays on review at the end', () => {
