@@ -42,6 +42,12 @@ export const user = pgTable('user', {
 	role: userRole('role').notNull(),
 	displayName: text('display_name').notNull(),
 	emailVerifiedAt: timestamp('email_verified_at', { withTimezone: true }),
+	/**
+	 * When the holder closed the account. The row stays (bookings, quotes, messages and the
+	 * append-only vetting trail point at it) with its personal fields overwritten; see
+	 * account-closing.ts.
+	 */
+	deletedAt: timestamp('deleted_at', { withTimezone: true }),
 	createdAt: createdAt()
 });
 
@@ -52,7 +58,9 @@ export const session = pgTable(
 		userId: text('user_id')
 			.notNull()
 			.references(() => user.id, { onDelete: 'cascade' }),
-		expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull()
+		expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+		/** Filled by the database (Lucia writes only id, user and expiry); shown on the account page. */
+		createdAt: createdAt()
 	},
 	(t) => [index('session_user_idx').on(t.userId)]
 );
@@ -65,7 +73,11 @@ export const emailToken = pgTable(
 		userId: text('user_id')
 			.notNull()
 			.references(() => user.id, { onDelete: 'cascade' }),
-		purpose: text('purpose', { enum: ['verify-email', 'reset-password'] }).notNull(),
+		purpose: text('purpose', {
+			enum: ['verify-email', 'reset-password', 'change-email']
+		}).notNull(),
+		/** For 'change-email': the address that becomes the account's once this link is used. */
+		newEmail: text('new_email'),
 		expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
 		usedAt: timestamp('used_at', { withTimezone: true }),
 		createdAt: createdAt()

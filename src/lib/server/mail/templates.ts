@@ -2,6 +2,7 @@
  * E-mail templates. Each renders a subject, an HTML part and a plain-text part from the same words,
  * so a message reads the same in any mail client.
  */
+import { isAccountEmail, renderAccountEmail, type AccountEmail } from './account';
 import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } from './marketplace';
 
 import { renderBlock, type RenderedEmail } from './layout';
@@ -33,7 +34,8 @@ export type EmailTemplate =
 			template: 'quote-withdrawn-suspended';
 			data: { displayName: string; businessName: string; title: string; url: string };
 	  }
-	| MarketplaceEmail;
+	| MarketplaceEmail
+	| AccountEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -54,6 +56,7 @@ const formatDay = (day: string) =>
 /** Renders one of Tapline's e-mails. */
 export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isMarketplaceEmail(message)) return renderMarketplaceEmail(message);
+	if (isAccountEmail(message)) return renderAccountEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {
