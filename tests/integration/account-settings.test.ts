@@ -101,7 +101,7 @@ describe('e-mail change', () => {
 		const next = freshEmail('new');
 		const asked = await requestEmailChange(me.id, {
 			newEmail: ` ${next.toUpperCase()} `,
-			currentPassword: PASSWORD
+			passwordForEmail: PASSWORD
 		});
 		expect(asked).toEqual({ ok: true, sentTo: next });
 		expect((await userRow(me.id)).email).toBe(me.email);
@@ -130,15 +130,15 @@ describe('e-mail change', () => {
 		const me = await makePerson('installer');
 		const next = freshEmail('new');
 		expect(
-			await requestEmailChange(me.id, { newEmail: next, currentPassword: 'not my password' })
+			await requestEmailChange(me.id, { newEmail: next, passwordForEmail: 'not my password' })
 		).toMatchObject({
 			ok: false,
 			status: 400,
 			message: WRONG_CURRENT_PASSWORD,
-			fields: { currentPassword: WRONG_CURRENT_PASSWORD }
+			fields: { passwordForEmail: WRONG_CURRENT_PASSWORD }
 		});
 		expect(
-			await requestEmailChange(me.id, { newEmail: me.email, currentPassword: PASSWORD })
+			await requestEmailChange(me.id, { newEmail: me.email, passwordForEmail: PASSWORD })
 		).toMatchObject({
 			ok: false,
 			status: 400,
@@ -154,7 +154,7 @@ describe('e-mail change', () => {
 		const other = await makePerson('owner');
 		const asked = await requestEmailChange(me.id, {
 			newEmail: other.email,
-			currentPassword: PASSWORD
+			passwordForEmail: PASSWORD
 		});
 		// Same answer as for a free address: the form cannot tell who has an account.
 		expect(asked).toEqual({ ok: true, sentTo: other.email });
@@ -168,7 +168,7 @@ describe('e-mail change', () => {
 		const me = await makePerson('owner');
 		const next = freshEmail('raced');
 		expect(
-			(await requestEmailChange(me.id, { newEmail: next, currentPassword: PASSWORD })).ok
+			(await requestEmailChange(me.id, { newEmail: next, passwordForEmail: PASSWORD })).ok
 		).toBe(true);
 		const token = (await mailTo(next))[0]!.text.match(/token=([A-Za-z0-9_-]+)/)![1]!;
 		const someoneElse = await createAccount({
@@ -190,12 +190,12 @@ describe('e-mail change', () => {
 		const me = await makePerson('owner');
 		for (let i = 0; i < ACCOUNT_PASSWORD_CHECKS; i++) {
 			expect(
-				await requestEmailChange(me.id, { newEmail: freshEmail(), currentPassword: 'wrong one' })
+				await requestEmailChange(me.id, { newEmail: freshEmail(), passwordForEmail: 'wrong one' })
 			).toMatchObject({ status: 400 });
 		}
 		const refused = await requestEmailChange(me.id, {
 			newEmail: freshEmail(),
-			currentPassword: PASSWORD
+			passwordForEmail: PASSWORD
 		});
 		expect(refused).toMatchObject({ ok: false, status: 429 });
 		expect(await db.select().from(emailToken).where(eq(emailToken.userId, me.id))).toEqual([]);
@@ -279,7 +279,7 @@ describe('sessions', () => {
 
 describe('closing an account', () => {
 	const close = (id: string, currentPassword = PASSWORD, confirmed = true) =>
-		closeAccount(id, { currentPassword, confirmed });
+		closeAccount(id, { passwordToClose: currentPassword, confirmed });
 
 	it('withdraws an owner’s open jobs, removes drafts, anonymises and signs out everywhere', async () => {
 		const me = await makePerson('owner');

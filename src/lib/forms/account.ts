@@ -12,13 +12,15 @@ const currentPassword = textField({ error: 'Enter your current password' })
 
 export const displayNameSchema = z.object({ displayName });
 
+// Each form names its password field differently: the page holds three, and a field's id comes
+// from its name.
 export const emailChangeSchema = z.object({
 	newEmail: textField({ error: 'Enter the new address' })
 		.trim()
 		.min(1, 'Enter the new address')
 		.max(254, 'That e-mail address is too long')
 		.pipe(z.email({ error: 'That does not look like an e-mail address (name@example.com)' })),
-	currentPassword
+	passwordForEmail: currentPassword
 });
 
 // NIST SP 800-63B: at least 8 characters for user-chosen secrets; Tapline asks 10 (as sign-up).
@@ -40,7 +42,7 @@ export const endSessionSchema = z.object({
 });
 
 export const closeAccountSchema = z.object({
-	currentPassword,
+	passwordToClose: currentPassword,
 	confirm: z.boolean().refine((v) => v, {
 		message: 'Tick the box to say you understand what closing the account does.'
 	})

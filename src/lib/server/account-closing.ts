@@ -181,14 +181,14 @@ async function closeInstallerSide(tx: Tx, mail: Mail, userId: string, now: Date,
  */
 export async function closeAccount(
 	userId: string,
-	input: { currentPassword: string; confirmed: boolean }
+	input: { passwordToClose: string; confirmed: boolean }
 ): Promise<{ ok: true } | Refusal> {
 	if (!input.confirmed) {
 		return refuse(400, 'Tick the box to say you understand what closing the account does.', {
 			fields: { confirm: 'Tick the box to say you understand what closing the account does.' }
 		});
 	}
-	const checked = await checkCurrentPassword(userId, input.currentPassword);
+	const checked = await checkCurrentPassword(userId, input.passwordToClose, 'passwordToClose');
 	if (!checked.ok) return checked;
 	const now = new Date();
 	// Unpaid holds that already ran out are let go first (and their installers told), as the

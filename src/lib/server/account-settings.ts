@@ -38,11 +38,13 @@ const wait = (gate: Extract<ThrottleResult, { allowed: false }>, what: string) =
 /**
  * Checks the account's current password, after taking the check from the account's allowance
  * (so a borrowed session cannot be used to guess it).
- * @returns the account's address and name, or a 429 / 400 refusal (the 400 on `currentPassword`)
+ * @param field the form field the password was typed in, for the refusal's field message
+ * @returns the account's address and name, or a 429 / 400 refusal (the 400 on `field`)
  */
 export async function checkCurrentPassword(
 	userId: string,
-	password: string
+	password: string,
+	field = 'currentPassword'
 ): Promise<{ ok: true; email: string; displayName: string } | Refusal> {
 	const gate = await consumeAccountPasswordCheck(userId);
 	if (!gate.allowed) return wait(gate, 'Too many password checks on this account.');
@@ -57,7 +59,7 @@ export async function checkCurrentPassword(
 	if (!row) return refuse(404, 'There is no such account.');
 	if (!(await verifyPassword(row.passwordHash, password))) {
 		return refuse(400, WRONG_CURRENT_PASSWORD, {
-			fields: { currentPassword: WRONG_CURRENT_PASSWORD }
+			fields: { [field]: WRONG_CURRENT_PASSWORD }
 		});
 	}
 	return { ok: true, email: row.email, displayName: row.displayName };
@@ -118,9 +120,9 @@ export async function changeDisplayName(
  */
 export async function requestEmailChange(
 	userId: string,
-	input: { newEmail: string; currentPassword: string }
+	input: { newEmail: string; passwordForEmail: string }
 ): Promise<{ ok: true; sentTo: string } | Refusal> {
-	const checked = await checkCurrentPassword(userId, input.currentPassword);
+	const checked = await checkCurrentPassword(userId, input.passwordForEmail, 'passwordForEmail');
 	if (!checked.ok) return checked;
 	const newEmail = normaliseEmail(input.newEmail);
 	if (newEmail === checked.email) {

@@ -53,10 +53,10 @@ export const actions = {
 	changeEmail: async ({ request, cookies }) => {
 		const { user } = requireSession();
 		const form = await superValidate(request, zod4(emailChangeSchema), { id: 'email' });
-		const { currentPassword } = form.data;
-		form.data.currentPassword = '';
+		const { passwordForEmail } = form.data;
+		form.data.passwordForEmail = '';
 		if (!form.valid) return fail(400, { form });
-		const result = await requestEmailChange(user.id, { ...form.data, currentPassword });
+		const result = await requestEmailChange(user.id, { ...form.data, passwordForEmail });
 		if (!result.ok) return refusalMessage(form, result);
 		redirectWithNotice(
 			cookies,
@@ -105,10 +105,10 @@ export const actions = {
 	closeAccount: async ({ request, cookies }) => {
 		const { user } = requireSession();
 		const form = await superValidate(request, zod4(closeAccountSchema), { id: 'close' });
-		const { currentPassword, confirm } = form.data;
-		form.data.currentPassword = '';
+		const { passwordToClose, confirm } = form.data;
+		form.data.passwordToClose = '';
 		if (!form.valid) return fail(400, { form });
-		const result = await closeAccount(user.id, { currentPassword, confirmed: confirm });
+		const result = await closeAccount(user.id, { passwordToClose, confirmed: confirm });
 		if (!result.ok) return refusalMessage(form, result);
 		clearSessionCookie(cookies);
 		redirectWithNotice(cookies, '/', 'Your account is closed and every device is signed out.');
