@@ -96,3 +96,14 @@ for (const [name, viewport] of Object.entries(VIEWPORTS)) {
 		await Promise.all([me.context.close(), elsewhere.close(), third.close()]);
 	});
 }
+
+test('the account page and its actions need a session', async ({ request }) => {
+	const page = await request.get('/account', { maxRedirects: 0 });
+	expect(page.status()).toBe(303);
+	expect(page.headers()['location']).toMatch(/^\/sign-in\?redirectTo=%2Faccount/);
+	for (const action of ['changeName', 'changePassword', 'endOtherSessions', 'closeAccount']) {
+		const res = await postForm(request, `/account?/${action}`, { displayName: 'Nobody' });
+		expect(res.status(), action).toBe(303);
+		expect(res.headers()['location'], action).toMatch(/^\/sign-in/);
+	}
+});
