@@ -5,7 +5,12 @@ import { emailOutbox, installerProfile, user } from './db/schema';
 /** Headline counts for the admin overview, fetched in parallel. */
 export async function getPlatformCounts() {
 	const [byRole, byVetting, [unsent], [failing]] = await Promise.all([
-		db.select({ role: user.role, n: count() }).from(user).groupBy(user.role),
+		// Closed accounts are no longer people on the platform.
+		db
+			.select({ role: user.role, n: count() })
+			.from(user)
+			.where(isNull(user.deletedAt))
+			.groupBy(user.role),
 		db
 			.select({ status: installerProfile.vettingStatus, n: count() })
 			.from(installerProfile)
