@@ -18,11 +18,24 @@ import type {
 	VettingStage
 } from './vetting';
 
-/** Who a person is on Tapline, beside their name in the header and on the account page. */
+/** Who an account is on Tapline. */
 export const ROLE_LABELS: Record<Role, string> = {
 	owner: 'Car owner',
 	installer: 'Installer',
 	admin: 'Admin'
+};
+
+/** Whether an account may sign in. */
+export const ACCOUNT_STANDING_LABELS: Record<'active' | 'suspended', string> = {
+	active: 'Active',
+	suspended: 'Suspended'
+};
+
+/** The admin actions the account audit trail records. */
+export const ADMIN_ACTION_LABELS: Record<string, string> = {
+	suspend: 'Suspended the account',
+	reinstate: 'Lifted the suspension',
+	'force-password-reset': 'Asked for a new password'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {

@@ -93,7 +93,7 @@ export async function previewAccountClosing(userId: string, role: Role, now = ne
 			? await db
 					.select({ id: user.id })
 					.from(user)
-					.where(and(eq(user.role, 'admin'), isNull(user.deletedAt)))
+					.where(and(eq(user.role, 'admin'), isNull(user.deletedAt), isNull(user.suspendedAt)))
 			: []
 	];
 	return {
@@ -206,11 +206,12 @@ export async function closeAccount(
 				.for('update');
 			if (!me) throw new Refused(refuse(404, 'There is no such account.'));
 			if (me.role === 'admin') {
-				// Locking every admin row serves two admins closing at once one after the other.
+				// Locking every admin row serves two admins closing at once one after the other. A
+				// suspended admin cannot act, so does not count.
 				const admins = await tx
 					.select({ id: user.id })
 					.from(user)
-					.where(and(eq(user.role, 'admin'), isNull(user.deletedAt)))
+					.where(and(eq(user.role, 'admin'), isNull(user.deletedAt), isNull(user.suspendedAt)))
 					.for('update');
 				if (admins.length <= 1) throw new Refused(refuse(409, LAST_ADMIN));
 			}
