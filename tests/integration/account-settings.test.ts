@@ -36,6 +36,7 @@ import {
 	vettingEvent,
 	type Role
 } from '$lib/server/db/schema';
+import { suspendAccount } from '$lib/server/admin-users';
 import { getPublicProfile } from '$lib/server/installers';
 import { createDraftJob } from '$lib/server/jobs';
 import { hashPassword } from '$lib/server/password';
@@ -304,8 +305,11 @@ describe('closing an account', () => {
 		expect(await sessionsOf(me.id)).toEqual([]);
 		expect(await authenticate(me.email, PASSWORD)).toBeNull();
 		expect((await mailTo(me.email)).map((m) => m.template)).toEqual(['account-closed']);
-		// A closed account cannot be closed or changed again.
+		// A closed account cannot be closed or changed again, by its holder or by an admin.
 		expect(await changeDisplayName(me.id, 'Back again')).toMatchObject({ status: 404 });
+		const admin = await makePerson('admin');
+		expect(await suspendAccount(admin.id, me.id, 'Spam')).toMatchObject({ ok: false, status: 409 });
+		expect((await userRow(me.id)).suspendedAt).toBeNull();
 	});
 
 	it('refuses without the tick or with a wrong password, changing nothing', async () => {
