@@ -46,7 +46,9 @@ export async function getAdminQueueCounts(): Promise<{ vetting: number }> {
 	const [waiting] = await db
 		.select({ n: count() })
 		.from(installerProfile)
-		.where(eq(installerProfile.vettingStatus, 'applied'));
+		// A closed account's application waits for nobody (as in the vetting queue).
+		.innerJoin(user, eq(user.id, installerProfile.userId))
+		.where(and(eq(installerProfile.vettingStatus, 'applied'), isNull(user.deletedAt)));
 	return { vetting: waiting?.n ?? 0 };
 }
 
