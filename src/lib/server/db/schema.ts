@@ -261,6 +261,8 @@ export const job = pgTable(
 			.$type<Array<{ date: string; window: 'morning' | 'midday' | 'afternoon' }>>()
 			.notNull()
 			.default([]),
+		/** The owner's note to installers (parking, access, anything to know); masked before booking. */
+		ownerNote: text('owner_note'),
 		priceLowCents: integer('price_low_cents'),
 		priceHighCents: integer('price_high_cents'),
 		withdrawnReason: text('withdrawn_reason'),
