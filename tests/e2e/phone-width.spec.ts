@@ -77,7 +77,8 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 test("an admin's pages fit a 360 px phone", async ({ page }) => {
 	await signIn(page, DEMO.admin);
 	const application = await firstLink(page, '/admin/vetting', /^\/admin\/vetting\/[0-9a-f-]{36}$/);
-	const paths = ['/admin', '/admin/vetting', application, '/admin/team'];
+	const account = await firstLink(page, '/admin/users', /^\/admin\/users\/[0-9a-f-]{36}$/);
+	const paths = ['/admin', '/admin/vetting', application, '/admin/team', '/admin/users', account];
 	expect(await tooWide(page, paths)).toEqual([]);
 });
 

@@ -42,6 +42,9 @@ export const user = pgTable('user', {
 	role: userRole('role').notNull(),
 	displayName: text('display_name').notNull(),
 	emailVerifiedAt: timestamp('email_verified_at', { withTimezone: true }),
+	/** Set by an admin: a suspended account cannot sign in, and its sessions were ended. */
+	suspendedAt: timestamp('suspended_at', { withTimezone: true }),
+	suspendedReason: text('suspended_reason'),
 	createdAt: createdAt()
 });
 
@@ -156,6 +159,31 @@ export const installerDocument = pgTable(
 		createdAt: createdAt()
 	},
 	(t) => [index('installer_document_installer_idx').on(t.installerId)]
+);
+
+/**
+ * Every admin action on an account (suspend, reinstate, force a password reset): who, when, what,
+ * and the account's standing before and after. Append-only: a trigger (migration 0006) refuses
+ * UPDATE, DELETE and TRUNCATE, as for vetting_event.
+ */
+export const adminAudit = pgTable(
+	'admin_audit',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		actorId: text('actor_id')
+			.notNull()
+			.references(() => user.id),
+		action: text('action').notNull(),
+		targetUserId: text('target_user_id').references(() => user.id),
+		before: jsonb('before').$type<Record<string, unknown>>(),
+		after: jsonb('after').$type<Record<string, unknown>>(),
+		reason: text('reason'),
+		createdAt: createdAt()
+	},
+	(t) => [
+		index('admin_audit_target_idx').on(t.targetUserId, t.createdAt),
+		index('admin_audit_created_idx').on(t.createdAt)
+	]
 );
 
 /**
