@@ -39,3 +39,23 @@ test('the admin overview shows the market with a chart, a map and the same figur
 		)
 		.toBe(true);
 });
+
+test('the admin navigation counts the applications waiting, and the queue says how long each has waited', async ({
+	page
+}) => {
+	await signIn(page, DEMO.admin);
+	await page.goto('/admin/vetting?status=applied');
+	const summary = await page.getByText(/\d+ applications? · page/).textContent();
+	const waiting = Number(/(\d+) application/.exec(summary ?? '')?.[1]);
+	const count = page
+		.getByRole('navigation', { name: 'Main', exact: true })
+		.getByTestId('nav-count');
+	if (waiting > 0) {
+		await expect(count).toHaveText(String(waiting));
+		await expect(page.getByTestId('waiting-for').first()).toHaveText(
+			/^waiting \d+ (second|minute|hour|day|month|year)s?$/
+		);
+	} else {
+		await expect(count).toHaveCount(0);
+	}
+});

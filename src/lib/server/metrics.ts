@@ -1,4 +1,4 @@
-import { count, isNotNull, isNull, and, gt, sql } from 'drizzle-orm';
+import { count, eq, isNotNull, isNull, and, gt, sql } from 'drizzle-orm';
 import { db } from './db';
 import { emailOutbox, installerProfile, user } from './db/schema';
 
@@ -34,6 +34,15 @@ export async function getPlatformCounts() {
 		emailsWaiting: unsent?.n ?? 0,
 		emailsFailing: failing?.n ?? 0
 	};
+}
+
+/** What waits on an admin, for the counts beside the admin navigation. */
+export async function getAdminQueueCounts(): Promise<{ vetting: number }> {
+	const [waiting] = await db
+		.select({ n: count() })
+		.from(installerProfile)
+		.where(eq(installerProfile.vettingStatus, 'applied'));
+	return { vetting: waiting?.n ?? 0 };
 }
 
 /** Booking statuses that mean the owner paid into held funds (now or before a later change). */
