@@ -66,7 +66,10 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 		'/installer/application',
 		'/installer/documents',
 		'/installer/service-area',
-		'/installer/hours'
+		'/installer/hours',
+		'/installer/fits',
+		'/installer/quotes',
+		'/installer/messages'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });
