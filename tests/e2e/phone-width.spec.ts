@@ -67,6 +67,9 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 		'/installer/documents',
 		'/installer/service-area',
 		'/installer/hours',
+		'/installer/fits',
+		'/installer/quotes',
+		'/installer/messages',
 		'/account'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);

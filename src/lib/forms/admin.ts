@@ -3,7 +3,8 @@
  * an account carries, with an explicit confirmation.
  */
 import { z } from 'zod';
-import { textField } from './fields';
+import type { Booking } from '$lib/server/db/schema';
+import { isCalendarDate, textField } from './fields';
 
 export const USER_ROLES = ['owner', 'installer', 'admin'] as const;
 export const ACCOUNT_STANDINGS = ['active', 'suspended'] as const;
@@ -27,4 +28,23 @@ export const accountActionSchema = z.object({
 		.boolean()
 		.default(false)
 		.refine((v) => v, { message: 'Tick the box to confirm' })
+});
+
+export const BOOKING_STATUSES = [
+	'awaiting_payment',
+	'confirmed',
+	'cancelled',
+	'lapsed'
+] as const satisfies readonly Booking['status'][];
+
+/** A calendar date in a query string, or '' when absent or not a real date. */
+const queryDate = z.string().refine(isCalendarDate).catch('').or(z.literal(''));
+
+/** The admin booking list's query string (and the CSV export's); unknown values mean "all". */
+export const bookingQuerySchema = z.object({
+	from: queryDate,
+	to: queryDate,
+	status: z.enum(BOOKING_STATUSES).or(z.literal('')).catch(''),
+	q: textField().max(100).catch(''),
+	page: z.coerce.number().int().min(1).max(100_000).catch(1)
 });

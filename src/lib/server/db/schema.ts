@@ -490,7 +490,11 @@ export const jobMessage = pgTable(
 		masked: text('masked').array().notNull().default([]),
 		createdAt: createdAt()
 	},
-	(t) => [index('job_message_thread_idx').on(t.jobId, t.installerId, t.createdAt)]
+	(t) => [
+		index('job_message_thread_idx').on(t.jobId, t.installerId, t.createdAt),
+		// An installer's threads, most recently active first (the day view and the messages page).
+		index('job_message_installer_idx').on(t.installerId, t.createdAt)
+	]
 );
 
 /** Which jobs an installer has been told about, so digests never repeat a job. */
