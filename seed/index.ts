@@ -13,6 +13,7 @@ import {
 	vettingEvent
 } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/password';
+import { DEMO_CONNECTED_ACCOUNTS } from '../local-fakes/data/stripe-demo-accounts';
 import { seedDemoJobs } from './jobs';
 import {
 	DEMO_ADMIN,
@@ -28,6 +29,13 @@ import {
 const ALL_TICKED = { identityMatches: true, insuranceCurrent: true, abnValidAndActive: true };
 
 /** Inserts the scenario in one transaction; returns false when the database already had accounts. */
+/** The demo connected account of the installer at `index` in the scenario. */
+function demoPayoutAccount(index: number): string {
+	const account = DEMO_CONNECTED_ACCOUNTS[index];
+	if (!account) throw new Error(`No demo connected account for installer ${String(index)}`);
+	return account.id;
+}
+
 export async function seedDemo(databaseUrl: string): Promise<boolean> {
 	const pool = new pg.Pool({ connectionString: databaseUrl, max: 2 });
 	const db = drizzle(pool);
@@ -79,6 +87,14 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 					offersWorkshop: i.workshop,
 					vettingStatus: i.status,
 					submittedAt,
+					// Vetted installers quote, and quoting needs payouts: each has one of the connected
+					// accounts the payments fake holds already onboarded.
+					...(i.status === 'approved' || i.status === 'suspended'
+						? {
+								payoutAccountId: demoPayoutAccount(index),
+								payoutsEnabled: true
+							}
+						: {}),
 					...details
 				});
 				await tx

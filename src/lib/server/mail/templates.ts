@@ -3,6 +3,7 @@
  * so a message reads the same in any mail client.
  */
 import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } from './marketplace';
+import { isPaymentEmail, renderPaymentEmail, type PaymentEmail } from './payments';
 
 import { renderBlock, type RenderedEmail } from './layout';
 
@@ -33,7 +34,8 @@ export type EmailTemplate =
 			template: 'quote-withdrawn-suspended';
 			data: { displayName: string; businessName: string; title: string; url: string };
 	  }
-	| MarketplaceEmail;
+	| MarketplaceEmail
+	| PaymentEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -54,6 +56,7 @@ const formatDay = (day: string) =>
 /** Renders one of Tapline's e-mails. */
 export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isMarketplaceEmail(message)) return renderMarketplaceEmail(message);
+	if (isPaymentEmail(message)) return renderPaymentEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {
