@@ -1028,7 +1028,7 @@ ${problem ? `<p class="problem" role="alert" data-testid="card-problem">${escape
 <label for="cvc">CVC</label><input id="cvc" name="cvc" inputmode="numeric" required>
 <label for="name">Name on card</label><input id="name" name="name">
 <button type="submit">Pay ${escapeHtml(amount)}</button></form>
-${session.cancel_url ? `<p><a href="${escapeHtml(session.cancel_url)}">Back to the shop without paying</a></p>` : ''}
+${session.cancel_url ? `<p><a href="${escapeHtml(session.cancel_url)}">Cancel and go back</a></p>` : ''}
 <p class="note">Test cards: 4242 4242 4242 4242 succeeds; 4000 0000 0000 0002 is declined; 4000 0000 0000 9995 has insufficient funds; 4000 0025 0000 3155 asks for authentication.</p>`
 		);
 	}

@@ -190,3 +190,20 @@ export async function reconcileWithProvider(): Promise<Reconciliation> {
 		gstPayableCents: -gst
 	};
 }
+
+/** Where a booking's payment stands, for its page (no ownership check: the caller did it). */
+export async function getPaymentState(bookingId: string) {
+	const [row] = await db
+		.select({
+			paidAt: payment.paidAt,
+			lastProblem: payment.lastProblem,
+			refundedAfterLapseAt: payment.refundedAfterLapseAt,
+			releasedAt: payment.releasedAt
+		})
+		.from(payment)
+		.where(eq(payment.bookingId, bookingId));
+	return {
+		...(row ?? { paidAt: null, lastProblem: null, refundedAfterLapseAt: null, releasedAt: null }),
+		heldCents: await heldCents(db, bookingId)
+	};
+}

@@ -1,12 +1,16 @@
 import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
+import { listNotices } from '$lib/server/notices';
 import { refusalFail } from '$lib/server/http/respond';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
 	const installer = requireRole('installer');
-	const status = await getApplicationStatus(installer.id);
+	const [status, notices] = await Promise.all([
+		getApplicationStatus(installer.id),
+		listNotices(installer.id)
+	]);
 	const p = status.profile;
 	return {
 		displayName: installer.displayName,
@@ -14,6 +18,8 @@ export const load: PageServerLoad = async () => {
 		stage: status.stage,
 		missing: status.missing,
 		lastMessage: status.lastMessage,
+		notices: notices.map((n) => ({ ...n, createdAt: n.createdAt.toISOString() })),
+		payoutsEnabled: p?.payoutsEnabled ?? false,
 		profile: p && {
 			businessName: p.businessName,
 			suburb: p.suburb,
