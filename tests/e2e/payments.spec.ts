@@ -4,7 +4,10 @@
  * here exactly as Stripe makes it (HMAC-SHA256 of "t.payload" with the endpoint's secret).
  */
 import { createHmac } from 'node:crypto';
-import { expect, test } from './fixtures';
+import { expect, signIn, test } from './fixtures';
+import { closeQueries, query } from './support/requests';
+
+test.afterAll(closeQueries);
 
 const SECRET = process.env.STRIPE_WEBHOOK_SECRET ?? '';
 const sign = (payload: string, t: number, secret = SECRET) =>
@@ -40,4 +43,33 @@ test('the webhook refuses unsigned, wrongly signed and stale events, and takes a
 	expect(await first.json()).toMatchObject({ outcome: 'processed' });
 	const again = await post(sign(payload, now()));
 	expect(await again.json()).toMatchObject({ outcome: 'already processed' });
+});
+
+test('a vetted installer without payouts is asked to set them up, and onboarding on the provider’s page enables them', async ({
+	page
+}) => {
+	// A vetted demo installer no other test uses, as if payouts had never been set up.
+	const email = 'omar.kassab@tapline.test';
+	const reset = await query(
+		`UPDATE installer_profile SET payouts_enabled = false, payout_account_id = NULL
+		 WHERE user_id = (SELECT id FROM "user" WHERE email = $1) RETURNING user_id`,
+		[email]
+	);
+	expect(reset).toHaveLength(1);
+	await signIn(page, email);
+	await page.goto('/installer');
+	await expect(page.getByTestId('payouts-needed')).toContainText('set up payouts');
+	await page.getByTestId('payouts-needed').getByRole('link', { name: 'set up payouts' }).click();
+	await expect(page.getByTestId('payouts-status')).toHaveText('Payouts are not set up yet.');
+	await page.getByRole('button', { name: 'Set up payouts' }).click();
+	// The payment provider's own onboarding page (the payments fake).
+	await expect(page.getByRole('heading', { name: 'Set up payouts' })).toBeVisible();
+	await page.getByLabel('Business name').fill('Marion Mobile Fitting');
+	await page.getByLabel('BSB').fill('000-000');
+	await page.getByLabel('Account number').fill('000123456');
+	await page.getByRole('button', { name: 'Agree and submit' }).click();
+	await expect(page).toHaveURL(/\/installer\/payouts\?returned=1$/);
+	await expect(page.getByTestId('payouts-status')).toHaveText('Payouts are set up.');
+	await page.goto('/installer');
+	await expect(page.getByTestId('payouts-needed')).toHaveCount(0);
 });
