@@ -67,6 +67,9 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 		'/installer/documents',
 		'/installer/service-area',
 		'/installer/hours',
+		'/installer/fits',
+		'/installer/quotes',
+		'/installer/messages',
 		'/installer/payouts'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);
@@ -75,7 +78,16 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 test("an admin's pages fit a 360 px phone", async ({ page }) => {
 	await signIn(page, DEMO.admin);
 	const application = await firstLink(page, '/admin/vetting', /^\/admin\/vetting\/[0-9a-f-]{36}$/);
-	const paths = ['/admin', '/admin/vetting', application, '/admin/team', '/admin/payments'];
+	const account = await firstLink(page, '/admin/users', /^\/admin\/users\/[0-9a-f-]{36}$/);
+	const paths = [
+		'/admin',
+		'/admin/vetting',
+		application,
+		'/admin/team',
+		'/admin/users',
+		account,
+		'/admin/payments'
+	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });
 

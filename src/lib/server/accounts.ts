@@ -189,9 +189,28 @@ export async function signIn(
 	}
 	const account = await authenticate(email, password);
 	if (!account) return refuse(400, SIGN_IN_MISMATCH);
+	// Only someone who knows the password learns the account is suspended.
+	const [standing] = await db
+		.select({ suspendedAt: user.suspendedAt })
+		.from(user)
+		.where(eq(user.id, account.id));
+	if (standing?.suspendedAt) return refuse(403, SUSPENDED_SIGN_IN);
 	await recordSuccessfulSignIn(email, address);
 	return { ok: true, account };
 }
+
+/**
+ * Ends every earlier reset link of the account and issues a fresh one, inside the caller's
+ * transaction (an admin's forced reset); returns the link to e-mail.
+ */
+export async function issueResetLink(tx: Tx, userId: string): Promise<string> {
+	const token = await issueToken(tx, userId, 'reset-password', RESET_TTL_MS);
+	return appUrl(`/reset-password?token=${token}`);
+}
+
+/** What a suspended account is told when it tries to sign in. */
+export const SUSPENDED_SIGN_IN =
+	'This account is suspended, so it cannot sign in. The e-mail we sent says why; reply to it to talk it through with us.';
 
 /**
  * Marks the address of the token's account verified.

@@ -7,7 +7,8 @@ import type { Cookies } from '@sveltejs/kit';
 import { Lucia } from 'lucia';
 import { dev } from '$app/environment';
 import { env } from '$env/dynamic/private';
-import { db } from './db';
+import { eq } from 'drizzle-orm';
+import { db, type Tx } from './db';
 import { session, user, type Role } from './db/schema';
 
 const adapter = new DrizzlePostgreSQLAdapter(db, session, user);
@@ -25,7 +26,8 @@ const lucia = new Lucia(adapter, {
 		email: attributes.email,
 		role: attributes.role,
 		displayName: attributes.displayName,
-		emailVerified: attributes.emailVerifiedAt !== null
+		emailVerified: attributes.emailVerifiedAt !== null,
+		suspended: attributes.suspendedAt !== null
 	})
 });
 
@@ -37,6 +39,7 @@ declare module 'lucia' {
 			role: Role;
 			displayName: string;
 			emailVerifiedAt: Date | null;
+			suspendedAt: Date | null;
 		};
 	}
 }
@@ -88,7 +91,11 @@ export async function readSession(
 		const cookie = lucia.createSessionCookie(result.session.id);
 		cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
 	}
-	if (!result.session || !result.user) {
+	if (result.session && result.user?.suspended) {
+		// A suspension ends every session; one started since (by a confirmation link) ends here.
+		await lucia.invalidateSession(result.session.id);
+	}
+	if (!result.session || !result.user || result.user.suspended) {
 		const blank = lucia.createBlankSessionCookie();
 		cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
 		return { user: null, session: null };
@@ -109,6 +116,14 @@ export async function endSession(cookies: Cookies, sessionId: string): Promise<v
 	await lucia.invalidateSession(sessionId);
 	const blank = lucia.createBlankSessionCookie();
 	cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
+}
+
+/**
+ * Ends every session of a user inside the caller's transaction, so a suspension or forced reset
+ * and the sign-out commit together.
+ */
+export async function endAllSessionsIn(tx: Tx, userId: string): Promise<void> {
+	await tx.delete(session).where(eq(session.userId, userId));
 }
 
 /** Ends every session of a user, e.g. after a password reset. */

@@ -5,6 +5,7 @@
  * the skills and working-mode checks of $lib/matching. Installers only ever get a job's grid-cell
  * centre until it is booked with them.
  */
+import { maskContactDetails } from '$lib/masking';
 import { and, between, eq, gt, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { boundingBox, distanceKm, type BoundingBox, type LatLng } from '$lib/geo';
@@ -374,6 +375,13 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 		approx,
 		locationMode: j.locationMode,
 		preferredWindows: j.preferredWindows,
+		// The owner's note passes unmasked only once a booking with this installer is paid for.
+		ownerNote:
+			j.ownerNote === null
+				? null
+				: mine?.status === 'confirmed'
+					? j.ownerNote
+					: maskContactDetails(j.ownerNote).text,
 		scope: j.scope,
 		request: j.request,
 		timeZone: j.timeZone,

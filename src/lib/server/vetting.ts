@@ -203,7 +203,7 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
  * Withdraws a suspended installer's open quotes and tells each owner, in the suspension's
  * transaction (the profile row is locked, so no quote or booking of theirs slips in between).
  */
-async function withdrawLiveQuotes(tx: Tx, mail: Mail, profile: InstallerProfile) {
+export async function withdrawLiveQuotes(tx: Tx, mail: Mail, profile: InstallerProfile) {
 	const withdrawn = await tx
 		.update(quote)
 		.set({ status: 'withdrawn', updatedAt: new Date() })

@@ -42,6 +42,9 @@ export const user = pgTable('user', {
 	role: userRole('role').notNull(),
 	displayName: text('display_name').notNull(),
 	emailVerifiedAt: timestamp('email_verified_at', { withTimezone: true }),
+	/** Set by an admin: a suspended account cannot sign in, and its sessions were ended. */
+	suspendedAt: timestamp('suspended_at', { withTimezone: true }),
+	suspendedReason: text('suspended_reason'),
 	createdAt: createdAt()
 });
 
@@ -163,6 +166,31 @@ export const installerDocument = pgTable(
 );
 
 /**
+ * Every admin action on an account (suspend, reinstate, force a password reset): who, when, what,
+ * and the account's standing before and after. Append-only: a trigger (migration 0006) refuses
+ * UPDATE, DELETE and TRUNCATE, as for vetting_event.
+ */
+export const adminAudit = pgTable(
+	'admin_audit',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		actorId: text('actor_id')
+			.notNull()
+			.references(() => user.id),
+		action: text('action').notNull(),
+		targetUserId: text('target_user_id').references(() => user.id),
+		before: jsonb('before').$type<Record<string, unknown>>(),
+		after: jsonb('after').$type<Record<string, unknown>>(),
+		reason: text('reason'),
+		createdAt: createdAt()
+	},
+	(t) => [
+		index('admin_audit_target_idx').on(t.targetUserId, t.createdAt),
+		index('admin_audit_created_idx').on(t.createdAt)
+	]
+);
+
+/**
  * Every vetting decision, append-only: a database trigger (migration 0001) refuses UPDATE and
  * DELETE on this table, so the trail cannot be edited, even by the app.
  */
@@ -265,6 +293,8 @@ export const job = pgTable(
 			.$type<Array<{ date: string; window: 'morning' | 'midday' | 'afternoon' }>>()
 			.notNull()
 			.default([]),
+		/** The owner's note to installers (parking, access, anything to know); masked before booking. */
+		ownerNote: text('owner_note'),
 		priceLowCents: integer('price_low_cents'),
 		priceHighCents: integer('price_high_cents'),
 		withdrawnReason: text('withdrawn_reason'),
@@ -452,7 +482,11 @@ export const jobMessage = pgTable(
 		masked: text('masked').array().notNull().default([]),
 		createdAt: createdAt()
 	},
-	(t) => [index('job_message_thread_idx').on(t.jobId, t.installerId, t.createdAt)]
+	(t) => [
+		index('job_message_thread_idx').on(t.jobId, t.installerId, t.createdAt),
+		// An installer's threads, most recently active first (the day view and the messages page).
+		index('job_message_installer_idx').on(t.installerId, t.createdAt)
+	]
 );
 
 /** Which jobs an installer has been told about, so digests never repeat a job. */
