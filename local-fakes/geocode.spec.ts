@@ -3,7 +3,14 @@ import { ADELAIDE_SUBURBS } from './data/adelaide-suburbs';
 import { distanceKm, nearestSuburb, searchSuburbs, type GeocodePlace } from './geocode';
 import { startFakes, type RunningFakes } from './index';
 
-const EPHEMERAL = { smtpPort: 0, mailHttpPort: 0, s3Port: 0, geocodePort: 0, tilesPort: 0 };
+const EPHEMERAL = {
+	smtpPort: 0,
+	mailHttpPort: 0,
+	s3Port: 0,
+	geocodePort: 0,
+	tilesPort: 0,
+	stripePort: 0
+};
 
 let fakes: RunningFakes;
 

@@ -3,6 +3,7 @@ import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
 import { startGeocodeFake } from './geocode';
 import { startS3Fake } from './s3';
+import { startStripeFake } from './stripe';
 import { startMailFake } from './smtp';
 import { startTilesFake } from './tiles';
 
@@ -14,6 +15,13 @@ export interface FakesConfig {
 	s3Port?: number;
 	geocodePort?: number;
 	tilesPort?: number;
+	stripePort?: number;
+	/** Where the payments fake POSTs its events (the app's webhook route). */
+	stripeWebhookUrl?: string;
+	/** The signing secret shared with the app (`whsec_…`). */
+	stripeWebhookSecret?: string;
+	/** First retry delay of a failed webhook delivery, doubling each time. */
+	stripeRetryBaseMs?: number;
 	/** Folder for persistence (`mail/`, `s3/` inside); in memory only when absent. */
 	dataDir?: string;
 }
@@ -25,6 +33,7 @@ export interface FakesUrls {
 	s3: string;
 	geocode: string;
 	tiles: string;
+	stripe: string;
 }
 
 /** Ports actually bound, useful when the config asked for port 0. */
@@ -34,6 +43,7 @@ export interface FakesPorts {
 	s3: number;
 	geocode: number;
 	tiles: number;
+	stripe: number;
 }
 
 /** Handle on running fakes. */
@@ -49,7 +59,8 @@ export const DEFAULT_PORTS = {
 	mailHttp: 2580,
 	s3: 9010,
 	geocode: 2590,
-	tiles: 2595
+	tiles: 2595,
+	stripe: 2600
 } as const;
 
 /**
@@ -80,20 +91,31 @@ export async function startFakes(config: FakesConfig = {}): Promise<RunningFakes
 		closers.push(geocode.close);
 		const tiles = await startTilesFake({ host, port: config.tilesPort ?? DEFAULT_PORTS.tiles });
 		closers.push(tiles.close);
+		const stripe = await startStripeFake({
+			host,
+			port: config.stripePort ?? DEFAULT_PORTS.stripe,
+			...(config.dataDir ? { dataDir: config.dataDir } : {}),
+			...(config.stripeWebhookUrl ? { webhookUrl: config.stripeWebhookUrl } : {}),
+			...(config.stripeWebhookSecret ? { webhookSecret: config.stripeWebhookSecret } : {}),
+			...(config.stripeRetryBaseMs !== undefined ? { retryBaseMs: config.stripeRetryBaseMs } : {})
+		});
+		closers.push(stripe.close);
 		return {
 			urls: {
 				smtp: mail.smtpUrl,
 				mailApi: mail.httpUrl,
 				s3: s3.url,
 				geocode: geocode.url,
-				tiles: tiles.url
+				tiles: tiles.url,
+				stripe: stripe.url
 			},
 			ports: {
 				smtp: mail.smtpPort,
 				mailHttp: mail.httpPort,
 				s3: s3.port,
 				geocode: geocode.port,
-				tiles: tiles.port
+				tiles: tiles.port,
+				stripe: stripe.port
 			},
 			close: async () => {
 				await Promise.all(closers.map((close) => close()));
@@ -113,6 +135,10 @@ const envSchema = z.object({
 	FAKE_S3_PORT: port.default(DEFAULT_PORTS.s3),
 	FAKE_GEOCODE_PORT: port.default(DEFAULT_PORTS.geocode),
 	FAKE_TILES_PORT: port.default(DEFAULT_PORTS.tiles),
+	FAKE_STRIPE_PORT: port.default(DEFAULT_PORTS.stripe),
+	FAKE_STRIPE_WEBHOOK_URL: z.url().optional(),
+	STRIPE_WEBHOOK_SECRET: z.string().min(1).optional(),
+	FAKE_STRIPE_RETRY_BASE_MS: z.coerce.number().int().min(1).optional(),
 	FAKES_DATA_DIR: z.string().min(1).optional()
 });
 
@@ -130,6 +156,12 @@ export function configFromEnv(env: NodeJS.ProcessEnv): FakesConfig {
 		s3Port: parsed.FAKE_S3_PORT,
 		geocodePort: parsed.FAKE_GEOCODE_PORT,
 		tilesPort: parsed.FAKE_TILES_PORT,
+		stripePort: parsed.FAKE_STRIPE_PORT,
+		...(parsed.FAKE_STRIPE_WEBHOOK_URL ? { stripeWebhookUrl: parsed.FAKE_STRIPE_WEBHOOK_URL } : {}),
+		...(parsed.STRIPE_WEBHOOK_SECRET ? { stripeWebhookSecret: parsed.STRIPE_WEBHOOK_SECRET } : {}),
+		...(parsed.FAKE_STRIPE_RETRY_BASE_MS
+			? { stripeRetryBaseMs: parsed.FAKE_STRIPE_RETRY_BASE_MS }
+			: {}),
 		...(parsed.FAKES_DATA_DIR ? { dataDir: parsed.FAKES_DATA_DIR } : {})
 	};
 }
@@ -141,6 +173,9 @@ async function main(): Promise<void> {
 	console.log(`S3         ${fakes.urls.s3}  (path-style, any credentials)`);
 	console.log(`geocoder   ${fakes.urls.geocode}/search?q=glenelg&format=json`);
 	console.log(`map tiles  ${fakes.urls.tiles}/{z}/{x}/{y}.png`);
+	console.log(
+		`payments   ${fakes.urls.stripe}  (Stripe-compatible API; webhooks to ${config.stripeWebhookUrl ?? 'nowhere'})`
+	);
 	console.log(config.dataDir ? `data kept in    ${config.dataDir}` : 'data kept in memory only');
 
 	let stopping = false;

@@ -21,7 +21,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startFakes, type RunningFakes } from './index';
 import { decodeAwsChunked, isValidBucketName } from './s3';
 
-const EPHEMERAL = { smtpPort: 0, mailHttpPort: 0, s3Port: 0, geocodePort: 0, tilesPort: 0 };
+const EPHEMERAL = {
+	smtpPort: 0,
+	mailHttpPort: 0,
+	s3Port: 0,
+	geocodePort: 0,
+	tilesPort: 0,
+	stripePort: 0
+};
 const BUCKET = 'tapline-uploads';
 
 // Any SigV4-shaped header passes; the fake does not check signatures.

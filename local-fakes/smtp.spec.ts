@@ -6,7 +6,14 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { startFakes, type RunningFakes } from './index';
 import type { MailDetail, MailSummary } from './smtp';
 
-const EPHEMERAL = { smtpPort: 0, mailHttpPort: 0, s3Port: 0, geocodePort: 0, tilesPort: 0 };
+const EPHEMERAL = {
+	smtpPort: 0,
+	mailHttpPort: 0,
+	s3Port: 0,
+	geocodePort: 0,
+	tilesPort: 0,
+	stripePort: 0
+};
 
 let fakes: RunningFakes;
 

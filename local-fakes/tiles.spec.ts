@@ -5,7 +5,14 @@ import type { LatLon } from './data/adelaide-map';
 import { startFakes, type RunningFakes } from './index';
 import { TILE_ATTRIBUTION, TILE_COLOURS, worldPixel } from './tiles';
 
-const EPHEMERAL = { smtpPort: 0, mailHttpPort: 0, s3Port: 0, geocodePort: 0, tilesPort: 0 };
+const EPHEMERAL = {
+	smtpPort: 0,
+	mailHttpPort: 0,
+	s3Port: 0,
+	geocodePort: 0,
+	tilesPort: 0,
+	stripePort: 0
+};
 
 // The Adelaide GPO, and a point in Gulf St Vincent about 20 km off Henley Beach (from memory).
 const GPO: LatLon = [-34.9285, 138.6007];

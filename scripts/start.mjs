@@ -73,7 +73,8 @@ const servicePorts = [
 	},
 	{ label: 'S3 fake', variable: 'FAKE_S3_PORT', port: config.fakes.FAKE_S3_PORT },
 	{ label: 'geocoder fake', variable: 'FAKE_GEOCODE_PORT', port: config.fakes.FAKE_GEOCODE_PORT },
-	{ label: 'map tile fake', variable: 'FAKE_TILES_PORT', port: config.fakes.FAKE_TILES_PORT }
+	{ label: 'map tile fake', variable: 'FAKE_TILES_PORT', port: config.fakes.FAKE_TILES_PORT },
+	{ label: 'payments fake', variable: 'FAKE_STRIPE_PORT', port: config.fakes.FAKE_STRIPE_PORT }
 ];
 
 async function main() {
@@ -131,7 +132,7 @@ async function main() {
 			}
 		);
 		await processes.waitForChildPorts(child, Object.values(config.fakes), 30_000);
-		step.note(`uploads and mail kept in ${path.relative(ROOT, fakesData) || fakesData}`);
+		step.note(`uploads, mail and payments kept in ${path.relative(ROOT, fakesData) || fakesData}`);
 		return child;
 	});
 	// After the fakes: the seed stores the demo installers' documents in the object store.

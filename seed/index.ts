@@ -13,6 +13,7 @@ import {
 	vettingEvent
 } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/password';
+import { DEMO_CONNECTED_ACCOUNTS } from '../local-fakes/data/stripe-demo-accounts';
 import { demoDocumentFiles, storeDemoObjects, type DemoObject } from './documents';
 import { seedDemoJobs } from './jobs';
 import {
@@ -27,6 +28,13 @@ import {
 } from './scenario';
 
 const ALL_TICKED = { identityMatches: true, insuranceCurrent: true, abnValidAndActive: true };
+
+/** The demo connected account of the installer at `index` in the scenario. */
+function demoPayoutAccount(index: number): string {
+	const account = DEMO_CONNECTED_ACCOUNTS[index];
+	if (!account) throw new Error(`No demo connected account for installer ${String(index)}`);
+	return account.id;
+}
 
 /**
  * Inserts the scenario in one transaction, then stores the demo installers' documents in the
@@ -86,6 +94,14 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 					offersWorkshop: i.workshop,
 					vettingStatus: i.status,
 					submittedAt,
+					// Vetted installers quote, and quoting needs payouts: each has one of the connected
+					// accounts the payments fake holds already onboarded.
+					...(i.status === 'approved' || i.status === 'suspended'
+						? {
+								payoutAccountId: demoPayoutAccount(index),
+								payoutsEnabled: true
+							}
+						: {}),
 					...details
 				});
 				await tx

@@ -44,7 +44,12 @@ const handleResponse: Handle = async ({ event, resolve }) => {
 	applySecurityHeaders(response.headers, {
 		https: (env.ORIGIN ?? '').startsWith('https://'),
 		private: event.locals.user !== null || event.url.pathname.startsWith('/api/'),
-		imageSources: tiles ? [tiles] : []
+		imageSources: tiles ? [tiles] : [],
+		formActions: (
+			env.STRIPE_HOSTED_ORIGINS ?? 'https://checkout.stripe.com https://connect.stripe.com'
+		)
+			.split(/\s+/)
+			.filter(Boolean)
 	});
 	return response;
 };

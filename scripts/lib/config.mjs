@@ -37,7 +37,8 @@ export function loadConfig(mode) {
 			FAKE_MAIL_HTTP_PORT: num('FAKE_MAIL_HTTP_PORT', 2580) + shift,
 			FAKE_S3_PORT: num('FAKE_S3_PORT', 9010) + shift,
 			FAKE_GEOCODE_PORT: num('FAKE_GEOCODE_PORT', 2590) + shift,
-			FAKE_TILES_PORT: num('FAKE_TILES_PORT', 2595) + shift
+			FAKE_TILES_PORT: num('FAKE_TILES_PORT', 2595) + shift,
+			FAKE_STRIPE_PORT: num('FAKE_STRIPE_PORT', 2600) + shift
 		}
 	};
 }
@@ -64,6 +65,16 @@ export function appEnv(config, databaseUrl) {
 			'Demo map: approximate, hand-made (Tapline local fake)',
 		PUBLIC_TILE_URL:
 			process.env.PUBLIC_TILE_URL ?? `http://127.0.0.1:${f.FAKE_TILES_PORT}/{z}/{x}/{y}.png`,
+		// The stripe SDK, pointed at the payments fake; in production: unset host/port/protocol and
+		// real keys. The fake POSTs its signed events to the app's webhook route.
+		STRIPE_SECRET_KEY: process.env.STRIPE_SECRET_KEY ?? 'sk_test_tapline_local',
+		STRIPE_WEBHOOK_SECRET: process.env.STRIPE_WEBHOOK_SECRET ?? 'whsec_tapline_local_signing',
+		STRIPE_API_HOST: process.env.STRIPE_API_HOST ?? '127.0.0.1',
+		STRIPE_API_PORT: process.env.STRIPE_API_PORT ?? String(f.FAKE_STRIPE_PORT),
+		STRIPE_API_PROTOCOL: process.env.STRIPE_API_PROTOCOL ?? 'http',
+		STRIPE_HOSTED_ORIGINS:
+			process.env.STRIPE_HOSTED_ORIGINS ?? `http://127.0.0.1:${f.FAKE_STRIPE_PORT}`,
+		FAKE_STRIPE_WEBHOOK_URL: `${origin}/api/webhooks/stripe`,
 		...Object.fromEntries(Object.entries(f).map(([k, v]) => [k, String(v)]))
 	};
 }

@@ -7,7 +7,7 @@ import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 // Types only (erased at build): the database enums are the one list of each status.
-import type { Booking, Job, Quote, Role } from './server/db/schema';
+import type { Booking, Job, LedgerTransaction, Quote, Role } from './server/db/schema';
 import type {
 	AdminDecision,
 	ChecklistItem,
@@ -215,3 +215,16 @@ export function workModesText(p: { offersMobile: boolean; offersWorkshop: boolea
 	];
 	return modes.filter(Boolean).join('; ') || '—';
 }
+
+/** Why an installer with a vetted profile cannot quote yet: payouts are not set up. */
+export const PAYOUTS_NEEDED_TEXT =
+	'Set up payouts before you quote: owners pay into held funds, and we need an account to pay you from them. It takes a few minutes under Payouts.';
+
+/** What a line of the held-funds ledger records, as shown on receipts and statements. */
+export const LEDGER_KIND_LABELS: Record<LedgerTransaction['kind'], string> = {
+	payment: 'Paid into held funds',
+	release: 'Released to the installer',
+	refund: 'Refunded',
+	late_fee: 'Late-cancellation fee to the installer',
+	reversal: 'Correction'
+};

@@ -1,6 +1,6 @@
 import type { Browser, Page } from '@playwright/test';
 import { DEMO, expect, signIn, test, waitForMail } from './fixtures';
-import { closeQueries, query } from './support/requests';
+import { closeQueries } from './support/requests';
 
 const JOB = '2018 Demo Hatch';
 const RUTH = 'ruth.akande@tapline.test';
@@ -154,11 +154,9 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await expect(owner.getByTestId('hold-note')).toContainText(
 		/Provisional until paid; slot held until \d{2}:\d{2}/
 	);
-	await owner.getByRole('button', { name: 'Pay into held funds' }).click();
-	await expect(owner.getByRole('alert')).toContainText('Payment into held funds is not open yet');
+	const bookingPath = new URL(owner.url()).pathname;
 
 	// The job's own page says Booked and leads to the booking.
-	const bookingPath = new URL(owner.url()).pathname;
 	const quotesHref = await owner.getByRole('link', { name: /Quotes for/ }).getAttribute('href');
 	await owner.goto(quotesHref!.replace(/\/quotes$/, ''));
 	await expect(owner.getByTestId('job-status')).toHaveText('Booked');
@@ -178,19 +176,44 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await expect(demo.getByText('14 Demo Court')).toHaveCount(0);
 	await expect(demo.getByText('Marnie Okafor')).toHaveCount(0);
 
-	// Once payment confirms the booking (payments are not open yet, so the test stands in for
-	// the payment step's confirmation), the installer sees the owner's name and address.
-	const jobId = new URL(demo.url()).pathname.split('/').at(-1);
-	const confirmed = await query(
-		`UPDATE booking SET status = 'confirmed' WHERE job_id = $1 AND status = 'awaiting_payment' RETURNING id`,
-		[jobId]
+	// The owner pays on the payment provider's own page (the local payments fake, test mode).
+	// The published decline card first: the page says why, and back on Tapline the booking says so.
+	await owner.goto(bookingPath);
+	await owner.getByRole('button', { name: 'Pay into held funds' }).click();
+	await expect(owner.getByRole('heading', { name: /^Pay \$/ })).toBeVisible();
+	await payWithCard(owner, '4000 0000 0000 0002');
+	await expect(owner.getByTestId('card-problem')).toHaveText('Your card was declined.');
+	await owner.getByRole('link', { name: 'Cancel and go back' }).click();
+	await expect(owner.getByTestId('booking-status')).toHaveText('Provisional: waiting for payment');
+	await expect(owner.getByTestId('payment-problem')).toContainText(
+		'did not go through: Your card was declined. Nothing was charged.'
 	);
-	expect(confirmed).toHaveLength(1);
+	// Then the success card: the booking is confirmed and the receipt shows the payment.
+	await owner.getByRole('button', { name: 'Try paying again' }).click();
+	await payWithCard(owner, '4242 4242 4242 4242');
+	await expect(owner.getByTestId('booking-status')).toHaveText('Confirmed');
+	const bookingTotal = await owner.getByTestId('booking-total').textContent();
+	await owner.getByRole('link', { name: 'See the receipt' }).click();
+	await expect(owner.getByRole('heading', { name: 'Receipt' })).toBeVisible();
+	await expect(owner.getByTestId('receipt-total')).toHaveText(bookingTotal!);
+	await expect(owner.getByTestId('receipt')).toContainText('Paid into held funds');
+	await waitForMail(DEMO.owner, /Booked and paid: 2018 Demo Hatch/);
+
+	// Now the installer sees the owner's name and address, and was told.
 	await demo.reload();
 	await expect(demo.getByTestId('booked-details')).toContainText('14 Demo Court, Walkerville');
 	await expect(demo.getByTestId('booked-details')).toContainText('Marnie Okafor');
 	await expect(demo.getByTestId('thread')).toContainText('Yes, it lives in a carport.');
+	await waitForMail(DEMO.installer, /Confirmed: 2018 Demo Hatch/);
 });
+
+/** Fills the payment page's card form (any future expiry and CVC) and pays. */
+async function payWithCard(page: Page, card: string) {
+	await page.getByLabel('Card number').fill(card);
+	await page.getByLabel('Expiry (MM / YY)').fill('12 / 34');
+	await page.getByLabel('CVC').fill('123');
+	await page.getByRole('button', { name: /^Pay \$/ }).click();
+}
 
 test('the job board API answers 401, 403 and 400 with messages', async ({ page, browser }) => {
 	const anonymous = await page.request.get('/api/jobs');

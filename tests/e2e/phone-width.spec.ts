@@ -40,7 +40,7 @@ test('public and sign-in pages fit a 360 px phone', async ({ page }) => {
 test("an owner's pages fit a 360 px phone", async ({ page }) => {
 	await signIn(page, DEMO.owner);
 	const job = await firstLink(page, '/owner', /^\/owner\/jobs\/[0-9a-f-]{36}$/);
-	const paths = ['/owner', '/owner/jobs/new', job, `${job}/quotes`, '/account'];
+	const paths = ['/owner', '/owner/jobs/new', job, `${job}/quotes`, '/account', '/owner/payments'];
 	const quote = await firstLink(page, `${job}/quotes`, /\/quotes\/[0-9a-f-]{36}$/).catch(
 		() => null
 	);
@@ -70,7 +70,8 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 		'/installer/fits',
 		'/installer/quotes',
 		'/installer/messages',
-		'/account'
+		'/account',
+		'/installer/payouts'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });
@@ -86,7 +87,8 @@ test("an admin's pages fit a 360 px phone", async ({ page }) => {
 		'/admin/team',
 		'/admin/users',
 		account,
-		'/account'
+		'/account',
+		'/admin/payments'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });

@@ -211,12 +211,20 @@ describe('holds and payment', () => {
 		expect(b?.status).toBe('lapsed');
 	});
 
-	it('has no fake payment: it says payment is not open, and only confirmBooking confirms', async () => {
+	it('pretends no payment: with the provider unreachable it says so, and only confirmBooking confirms', async () => {
 		const { job: j, ownerId, quotes } = await jobWithQuotes(1);
 		const q = quotes[0]!;
 		const made = await bookQuote(ownerId, j.id, q.id, q.slots[0]!.start);
 		if (!made.ok) throw new Error(made.message);
-		expect(await startHeldFundsPayment(made.bookingId)).toMatchObject({ status: 'unavailable' });
+		// Nothing listens on port 9 (discard): the payment provider is down.
+		process.env.STRIPE_SECRET_KEY = 'sk_test_unreachable';
+		process.env.STRIPE_API_HOST = '127.0.0.1';
+		process.env.STRIPE_API_PORT = '9';
+		process.env.STRIPE_API_PROTOCOL = 'http';
+		expect(await startHeldFundsPayment(made.bookingId)).toMatchObject({
+			status: 'unavailable',
+			message: expect.stringContaining('Nothing has been charged') as unknown
+		});
 		const [still] = await db.select().from(booking).where(eq(booking.id, made.bookingId));
 		expect(still?.status).toBe('awaiting_payment');
 		const before = await listQuotesForOwner(j.id, ownerId);

@@ -41,6 +41,8 @@ export interface InstallerOptions {
 	travelFeeCentsPerKm?: number;
 	/** Registered for GST; true unless said otherwise. */
 	gstRegistered?: boolean;
+	/** Payouts set up (quoting needs it); true unless said otherwise. */
+	payoutsEnabled?: boolean;
 }
 
 /** A vetted installer (by default) working weekdays 08:00–17:00 Adelaide time. */
@@ -69,6 +71,8 @@ export async function makeInstaller(options: InstallerOptions = {}) {
 		travelFeeCentsPerKm: options.travelFeeCentsPerKm ?? 150,
 		vettingStatus: options.status ?? 'approved',
 		pausedReason: options.pausedReason ?? null,
+		// Quoting needs payouts; tests that pay out give the installer a real account in the fake.
+		payoutsEnabled: options.payoutsEnabled ?? true,
 		submittedAt: new Date()
 	});
 	await db.insert(installerHours).values(

@@ -15,6 +15,7 @@ import {
 	type DocumentKind
 } from '$lib/vetting';
 import { seedDemo } from '../../seed';
+import { DEMO_CONNECTED_ACCOUNTS } from '../../local-fakes/data/stripe-demo-accounts';
 
 // The admin's ticks are judgement, recorded in the seed's approval events as all ticked.
 const ALL_TICKED: Checklist = {
@@ -95,6 +96,26 @@ describe('the demo data obeys the vetting rules', () => {
 			).map((d) => d.kind);
 			expect(kinds, name).toEqual(expect.arrayContaining(['insurance', 'photo-id']));
 		}
+	});
+
+	it('every approved installer can be paid: a demo connected account the payments fake holds, payouts enabled', async () => {
+		const approved = await db
+			.select()
+			.from(installerProfile)
+			.where(eq(installerProfile.vettingStatus, 'approved'));
+		expect(approved.length).toBeGreaterThan(0);
+		const known = new Set(DEMO_CONNECTED_ACCOUNTS.map((a) => a.id));
+		for (const profile of approved) {
+			expect(profile.payoutsEnabled, profile.businessName).toBe(true);
+			expect(known.has(profile.payoutAccountId ?? ''), profile.businessName).toBe(true);
+		}
+		const unvetted = await db
+			.select({ enabled: installerProfile.payoutsEnabled })
+			.from(installerProfile)
+			.where(
+				inArray(installerProfile.vettingStatus, ['applied', 'waiting_on_installer', 'rejected'])
+			);
+		expect(unvetted.every((p) => !p.enabled)).toBe(true);
 	});
 
 	it('every listed document is stored, with the size its row gives, and opens', async () => {

@@ -51,7 +51,8 @@ async function freePorts(n: number): Promise<number[]> {
 }
 
 async function startEnv() {
-	const [app = 0, smtp = 0, mail = 0, s3 = 0, geocode = 0, tiles = 0] = await freePorts(6);
+	const [app = 0, smtp = 0, mail = 0, s3 = 0, geocode = 0, tiles = 0, payments = 0] =
+		await freePorts(7);
 	const env: NodeJS.ProcessEnv = {
 		...process.env,
 		PORT: String(app),
@@ -60,13 +61,17 @@ async function startEnv() {
 		FAKE_S3_PORT: String(s3),
 		FAKE_GEOCODE_PORT: String(geocode),
 		FAKE_TILES_PORT: String(tiles),
+		FAKE_STRIPE_PORT: String(payments),
 		TAPLINE_PG_PORT: String(PG_PORT),
 		...BUILD
 	};
 	// npm start's own settings only: no database or data folder handed down from outside.
 	for (const name of ['DATABASE_URL', 'FAKES_DATA_DIR', 'TAPLINE_PG_DATA', 'npm_lifecycle_event'])
 		delete env[name];
-	return { env, ports: { app, fakes: [smtp, mail, s3, geocode, tiles], pg: PG_PORT } };
+	return {
+		env,
+		ports: { app, fakes: [smtp, mail, s3, geocode, tiles, payments], pg: PG_PORT }
+	};
 }
 
 function launch(env: NodeJS.ProcessEnv, viaNpm = false): Started {

@@ -11,7 +11,8 @@ export const QUEUES = {
 	insuranceExpiry: 'insurance-expiry',
 	newJobDigest: 'new-job-digest',
 	quoteDigest: 'quote-digest',
-	bookingHoldLapse: 'booking-hold-lapse'
+	bookingHoldLapse: 'booking-hold-lapse',
+	heldFundsRelease: 'held-funds-release'
 } as const;
 
 /**

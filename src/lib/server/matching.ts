@@ -40,6 +40,8 @@ export interface InstallerContext extends InstallerReach {
 	freeRadiusKm: number;
 	travelFeeCentsPerKm: number;
 	gstRegistered: boolean;
+	/** Payouts set up at the payment provider; quoting needs it. */
+	payoutsEnabled: boolean;
 }
 
 /** The installer's matching facts, or null before they have a profile. */
@@ -58,7 +60,8 @@ export async function getInstallerContext(installerId: string): Promise<Installe
 		timeZone: p.timeZone,
 		freeRadiusKm: p.freeRadiusKm,
 		travelFeeCentsPerKm: p.travelFeeCentsPerKm,
-		gstRegistered: p.gstRegistered
+		gstRegistered: p.gstRegistered,
+		payoutsEnabled: p.payoutsEnabled
 	};
 }
 

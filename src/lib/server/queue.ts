@@ -16,6 +16,7 @@
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 import { QUEUES, QUOTE_DIGEST_SECONDS, setBoss } from './boss';
+import { retryPendingReleases } from './payments';
 import { lapseExpiredHolds } from './bookings';
 import { deliverEmail, listStrandedEmails } from './mail/outbox';
 import { sendNewJobDigests } from './matching';
@@ -87,7 +88,12 @@ async function registerWork(boss: PgBoss): Promise<void> {
 		await runInsuranceExpiryCheck();
 	});
 
-	for (const name of [QUEUES.newJobDigest, QUEUES.quoteDigest, QUEUES.bookingHoldLapse]) {
+	for (const name of [
+		QUEUES.newJobDigest,
+		QUEUES.quoteDigest,
+		QUEUES.bookingHoldLapse,
+		QUEUES.heldFundsRelease
+	]) {
 		await boss.createQueue(name, { name, retryLimit: 3, retryDelay: 60 });
 	}
 	// New jobs: one e-mail a day at most, before the working day. The board shows new jobs at
@@ -115,6 +121,12 @@ async function registerWork(boss: PgBoss): Promise<void> {
 	await boss.schedule(QUEUES.bookingHoldLapse, '* * * * *');
 	await boss.work(QUEUES.bookingHoldLapse, async () => {
 		await lapseExpiredHolds();
+	});
+	// Payouts: a release the payment provider did not take is tried again every five minutes;
+	// the idempotency key and the row lock make a retry safe however often it runs.
+	await boss.schedule(QUEUES.heldFundsRelease, '*/5 * * * *');
+	await boss.work(QUEUES.heldFundsRelease, async () => {
+		await retryPendingReleases();
 	});
 }
 

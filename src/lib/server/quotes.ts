@@ -29,6 +29,7 @@ import { refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
 import { titleOrUntitled } from '$lib/posted-job';
 import { canQuote } from '$lib/vetting';
+import { PAYOUTS_NEEDED_TEXT } from '$lib/labels';
 
 /** What an installer sends, in GST-inclusive cents and UTC instants. */
 export interface QuoteInput {
@@ -71,6 +72,7 @@ export async function submitQuote(
 		if (profile.pausedReason) {
 			return refuse(403, `Your quoting is paused: ${profile.pausedReason}`);
 		}
+		if (!profile.payoutsEnabled) return refuse(403, PAYOUTS_NEEDED_TEXT);
 		const [row] = await tx.select().from(job).where(eq(job.id, jobId)).for('share');
 		if (!row || row.status === 'drafting') return refuse(404, 'There is no such job.');
 		if (row.status === 'withdrawn') {

@@ -5,7 +5,7 @@
  * message.
  */
 
-export type RefusalStatus = 400 | 401 | 403 | 404 | 409 | 429;
+export type RefusalStatus = 400 | 401 | 403 | 404 | 409 | 429 | 502 | 503;
 
 export interface Refusal {
 	ok: false;

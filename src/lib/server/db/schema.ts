@@ -121,6 +121,10 @@ export const installerProfile = pgTable(
 		abn: varchar('abn', { length: 11 }),
 		/** Registered for GST: only then do the installer's quotes carry GST (see $lib/gst). */
 		gstRegistered: boolean('gst_registered').notNull().default(false),
+		/** The installer's connected account with the payment provider, made at payouts set-up. */
+		payoutAccountId: text('payout_account_id').unique(),
+		/** The provider says the account can receive payouts; quoting needs it. */
+		payoutsEnabled: boolean('payouts_enabled').notNull().default(false),
 		yearsInTrade: smallint('years_in_trade'),
 		/** What they fit: see INSTALLER_SKILLS in $lib/vetting. */
 		skills: text('skills').array().notNull().default([]),
@@ -512,11 +516,126 @@ export const jobNotice = pgTable(
 	(t) => [primaryKey({ columns: [t.installerId, t.jobId] })]
 );
 
+/**
+ * Paying a booking into held funds: one row per booking, from the first checkout. The ledger,
+ * not this row, says how much is held; this row keeps the provider's ids and what happened.
+ */
+export const payment = pgTable('payment', {
+	bookingId: uuid('booking_id')
+		.primaryKey()
+		.references(() => booking.id),
+	checkoutSessionId: text('checkout_session_id').unique(),
+	checkoutUrl: text('checkout_url'),
+	paymentIntentId: text('payment_intent_id').unique(),
+	chargeId: text('charge_id').unique(),
+	paidAt: timestamp('paid_at', { withTimezone: true }),
+	/** Why the last attempt failed, in the provider's words for the owner; null after success. */
+	lastProblem: text('last_problem'),
+	/** Set when the money arrived after the hold lapsed and the slot was gone: refunded in full. */
+	refundedAfterLapseAt: timestamp('refunded_after_lapse_at', { withTimezone: true }),
+	/** Release was asked for (by completion or an admin); a failed call is retried by the schedule. */
+	releaseRequestedAt: timestamp('release_requested_at', { withTimezone: true }),
+	releasedAt: timestamp('released_at', { withTimezone: true }),
+	transferId: text('transfer_id').unique(),
+	feeCents: integer('fee_cents'),
+	gstOnFeeCents: integer('gst_on_fee_cents'),
+	payoutCents: integer('payout_cents'),
+	lastReleaseError: text('last_release_error'),
+	createdAt: createdAt()
+});
+
+/** Provider events already processed; the primary key makes each event id count once. */
+export const paymentEvent = pgTable('payment_event', {
+	eventId: text('event_id').primaryKey(),
+	type: text('type').notNull(),
+	processedAt: createdAt()
+});
+
+/** Ledger accounts (debits positive, credits negative). */
+export const ledgerAccount = pgEnum('ledger_account', [
+	/** Asset: money the platform holds at the payment provider. */
+	'platform_cash',
+	/** Liability: an owner's payment held for their booking. */
+	'owner_funds_held',
+	/** Liability: what Tapline owes an installer until the transfer is made. */
+	'installer_payable',
+	/** Revenue: Tapline's fee, GST excluded. */
+	'fee_revenue',
+	/** Liability: GST on Tapline's fee, owed to the Australian Taxation Office. */
+	'gst_payable'
+]);
+
+/** What a ledger transaction records. */
+export const ledgerKind = pgEnum('ledger_kind', [
+	'payment',
+	'release',
+	'refund',
+	'late_fee',
+	'reversal'
+]);
+
+/**
+ * One movement of money: two or more entries that sum to zero (checked at commit by a deferred
+ * trigger, the ledger-rules migration). Append-only: a mistake is put right by a 'reversal', never an update.
+ */
+export const ledgerTransaction = pgTable(
+	'ledger_transaction',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		kind: ledgerKind('kind').notNull(),
+		bookingId: uuid('booking_id').references(() => booking.id),
+		/** The provider's object behind it (charge, transfer, refund); at most one per kind. */
+		reference: text('reference').notNull(),
+		reverses: uuid('reverses'),
+		memo: text('memo').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [
+		uniqueIndex('ledger_transaction_kind_reference_idx').on(t.kind, t.reference),
+		index('ledger_transaction_booking_idx').on(t.bookingId)
+	]
+);
+
+export const ledgerEntry = pgTable(
+	'ledger_entry',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		transactionId: uuid('transaction_id')
+			.notNull()
+			.references(() => ledgerTransaction.id),
+		account: ledgerAccount('account').notNull(),
+		bookingId: uuid('booking_id').references(() => booking.id),
+		/** Integer cents; debit positive, credit negative. */
+		amountCents: integer('amount_cents').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [
+		index('ledger_entry_transaction_idx').on(t.transactionId),
+		index('ledger_entry_booking_account_idx').on(t.bookingId, t.account)
+	]
+);
+
+/** In-app notices: what happened to someone's booking or payment, newest first on their home page. */
+export const notice = pgTable(
+	'notice',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		text: text('text').notNull(),
+		link: text('link'),
+		createdAt: createdAt()
+	},
+	(t) => [index('notice_user_idx').on(t.userId, t.createdAt)]
+);
+
 export type User = typeof user.$inferSelect;
 export type Role = (typeof userRole.enumValues)[number];
 export type InstallerProfile = typeof installerProfile.$inferSelect;
 export type Job = typeof job.$inferSelect;
 export type Quote = typeof quote.$inferSelect;
 export type Booking = typeof booking.$inferSelect;
+export type LedgerTransaction = typeof ledgerTransaction.$inferSelect;
 export type JobStatus = (typeof jobStatus.enumValues)[number];
 export type VettingStatus = (typeof vettingStatus.enumValues)[number];

@@ -77,4 +77,18 @@ describe('applySecurityHeaders', () => {
 		applySecurityHeaders(media, { ...PUBLIC_PAGE, imageSources: ['http://127.0.0.1:2595'] });
 		expect(media.get('content-security-policy')).toBe("default-src 'none'; sandbox");
 	});
+
+	it('lets forms lead to the payment provider’s hosted pages, on pages only', () => {
+		const headers = new Headers({
+			'content-type': 'text/html',
+			'content-security-policy': "default-src 'self'; form-action 'self'"
+		});
+		applySecurityHeaders(headers, {
+			...PUBLIC_PAGE,
+			formActions: ['https://checkout.stripe.com', 'https://connect.stripe.com']
+		});
+		expect(headers.get('content-security-policy')).toBe(
+			"default-src 'self'; form-action 'self' https://checkout.stripe.com https://connect.stripe.com"
+		);
+	});
 });

@@ -15,12 +15,17 @@ export const HSTS = 'max-age=63072000; includeSubDomains';
 
 /** Adds sources to a policy's img-src (or gives it one), leaving every other directive alone. */
 export function withImageSources(policy: string, sources: readonly string[]): string {
+	return withSources(policy, 'img-src', sources);
+}
+
+/** Adds sources to one directive of a policy (or gives it one), leaving the others alone. */
+export function withSources(policy: string, directive: string, sources: readonly string[]): string {
 	const directives = policy
 		.split(';')
 		.map((d) => d.trim())
 		.filter(Boolean);
-	const i = directives.findIndex((d) => d.split(/\s+/)[0] === 'img-src');
-	const current = i >= 0 ? directives[i]!.split(/\s+/) : ['img-src'];
+	const i = directives.findIndex((d) => d.split(/\s+/)[0] === directive);
+	const current = i >= 0 ? directives[i]!.split(/\s+/) : [directive];
 	const merged = [...current, ...sources.filter((s) => !current.includes(s))].join(' ');
 	if (i >= 0) directives[i] = merged;
 	else directives.push(merged);
@@ -34,6 +39,11 @@ export interface HeaderContext {
 	private: boolean;
 	/** Extra image sources for HTML pages (the map tiles' origin). */
 	imageSources: readonly string[];
+	/**
+	 * Where forms may lead besides this site: the payment provider's hosted pages (checkout and
+	 * payouts onboarding), which a form's redirect reaches; `form-action` covers redirects.
+	 */
+	formActions?: readonly string[];
 }
 
 /** Sets the security headers on a response in place. */
@@ -57,7 +67,11 @@ export function applySecurityHeaders(headers: Headers, context: HeaderContext): 
 	}
 
 	const csp = headers.get('content-security-policy');
-	if (isPage && csp && context.imageSources.length > 0) {
-		headers.set('content-security-policy', withImageSources(csp, context.imageSources));
+	if (isPage && csp) {
+		let policy = csp;
+		if (context.imageSources.length > 0) policy = withImageSources(policy, context.imageSources);
+		if (context.formActions?.length)
+			policy = withSources(policy, 'form-action', context.formActions);
+		headers.set('content-security-policy', policy);
 	}
 }

@@ -4,6 +4,7 @@
  */
 import { isAccountEmail, renderAccountEmail, type AccountEmail } from './account';
 import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } from './marketplace';
+import { isPaymentEmail, renderPaymentEmail, type PaymentEmail } from './payments';
 
 import { renderBlock, type RenderedEmail } from './layout';
 
@@ -38,7 +39,8 @@ export type EmailTemplate =
 			data: { displayName: string; businessName: string; title: string; url: string };
 	  }
 	| MarketplaceEmail
-	| AccountEmail;
+	| AccountEmail
+	| PaymentEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -60,6 +62,7 @@ const formatDay = (day: string) =>
 export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isMarketplaceEmail(message)) return renderMarketplaceEmail(message);
 	if (isAccountEmail(message)) return renderAccountEmail(message);
+	if (isPaymentEmail(message)) return renderPaymentEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {

@@ -1,5 +1,6 @@
 import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
+import { listNotices } from '$lib/server/notices';
 import { getInstallerDay } from '$lib/server/installer-day';
 import { formatDay } from '$lib/time';
 import { fitRow, threadRow, waitingQuoteRow } from '$lib/day-rows';
@@ -10,9 +11,10 @@ import type { Actions, PageServerLoad } from './$types';
 export const load: PageServerLoad = async () => {
 	const installer = requireRole('installer');
 	const now = new Date();
-	const [status, day] = await Promise.all([
+	const [status, day, notices] = await Promise.all([
 		getApplicationStatus(installer.id),
-		getInstallerDay(installer.id, now)
+		getInstallerDay(installer.id, now),
+		listNotices(installer.id)
 	]);
 	const p = status.profile;
 	const zone = day.fits.timeZone;
@@ -44,6 +46,8 @@ export const load: PageServerLoad = async () => {
 		stage: status.stage,
 		missing: status.missing,
 		lastMessage: status.lastMessage,
+		notices: notices.map((n) => ({ ...n, createdAt: n.createdAt.toISOString() })),
+		payoutsEnabled: p?.payoutsEnabled ?? false,
 		profile: p && {
 			businessName: p.businessName,
 			suburb: p.suburb,

@@ -13,6 +13,7 @@ import { quoteFormSchema, toQuoteInput } from './quote-form';
 import { quoteFormDefaults } from './quote-defaults';
 import { CONTACTS_HIDDEN_NOTE as HIDDEN_NOTE } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';
+import { cancelPaidBooking } from '$lib/server/payments';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = 'There is no such job on your board.';
@@ -70,7 +71,16 @@ export const load: PageServerLoad = async ({ params }) => {
 		})),
 		photos,
 		messages: messages.map((m) => ({ ...m, mine: m.authorId === installer.id })),
-		mayQuote: found.status === 'collecting_quotes' && found.problem === null && ctx.canQuote,
+		mayQuote:
+			found.status === 'collecting_quotes' &&
+			found.problem === null &&
+			ctx.canQuote &&
+			ctx.payoutsEnabled,
+		needsPayouts:
+			found.status === 'collecting_quotes' &&
+			found.problem === null &&
+			ctx.canQuote &&
+			!ctx.payoutsEnabled,
 		form,
 		askForm,
 		timeZone: ctx.timeZone,
@@ -101,6 +111,18 @@ export const actions = {
 			cookies,
 			`/installer/jobs/${params.id}`,
 			`Quote sent (revision ${String(result.revision)}). The owner gets an e-mail; you can revise it until they book.${result.masked.length > 0 ? ` ${HIDDEN_NOTE}` : ''}`
+		);
+	},
+	cancelBooking: async ({ params, cookies }) => {
+		const { installer, ctx } = await context();
+		const found = await getJobForInstaller(params.id, ctx);
+		if (!found?.booking || found.booking.status !== 'confirmed') error(404, NOT_FOUND);
+		const result = await cancelPaidBooking(found.booking.id, 'installer', installer.id);
+		if (!result.ok) return refusalFail(result);
+		redirectWithNotice(
+			cookies,
+			'/installer',
+			'Booking cancelled: the owner is refunded in full and the job is open to quotes again.'
 		);
 	},
 	withdraw: async ({ params }) => {

@@ -1,25 +1,45 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { cancellationSettlement } from '$lib/cancellation';
 import { quoteGstNote } from '$lib/gst';
 import { bookingStatusAt } from '$lib/holds';
 import { getOwnerBooking } from '$lib/server/bookings';
 import { requireRole } from '$lib/server/http/guards';
-import { startHeldFundsPayment } from '$lib/server/payments';
+import { redirectWithNotice } from '$lib/server/http/notice';
+import { refusalFail } from '$lib/server/http/respond';
+import { cancelPaidBooking, startHeldFundsPayment } from '$lib/server/payments';
+import { getPaymentState } from '$lib/server/receipts';
+import { lateFeeCents } from '$lib/server/stripe';
 import { formatSlotLabel } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
 import { titleOrUntitled } from '$lib/posted-job';
 
 const NOT_FOUND = 'There is no such booking among yours.';
 
-export const load: PageServerLoad = async ({ params }) => {
+export const load: PageServerLoad = async ({ params, url }) => {
 	const owner = requireRole('owner');
 	const row = await getOwnerBooking(params.id, owner.id);
 	if (!row) error(404, NOT_FOUND);
 	const b = row.booking;
+	const money = await getPaymentState(b.id);
+	const now = new Date();
+	const status =
+		money.paidAt && b.status === 'awaiting_payment' ? b.status : bookingStatusAt(b, now);
+	// What cancelling now would do, by the same rule the cancellation applies.
+	const cancelPreview =
+		status === 'confirmed' && money.heldCents > 0 && !money.releasedAt
+			? cancellationSettlement({
+					cancelledBy: 'owner',
+					at: now,
+					slotStart: b.slotStart,
+					heldCents: money.heldCents,
+					lateFeeCents: lateFeeCents()
+				})
+			: null;
 	return {
 		booking: {
 			id: b.id,
 			// A hold that ran out reads as lapsed now; the schedule records it within a minute.
-			status: bookingStatusAt(b, new Date()),
+			status,
 			totalCents: b.totalCents,
 			gstNote: quoteGstNote({ gstRegistered: row.gstRegistered, gstCents: row.gstCents }),
 			slot: formatSlotLabel(
@@ -28,6 +48,16 @@ export const load: PageServerLoad = async ({ params }) => {
 			),
 			holdExpiresAt: b.holdExpiresAt.toISOString()
 		},
+		payment: {
+			paid: money.paidAt !== null,
+			lastProblem: money.lastProblem,
+			refundedAfterLapse: money.refundedAfterLapseAt !== null,
+			heldCents: money.heldCents,
+			released: money.releasedAt !== null,
+			// Back from the hosted checkout before the provider's event has arrived.
+			confirming: url.searchParams.has('paid') && b.status === 'awaiting_payment'
+		},
+		cancelPreview,
 		jobId: row.jobId,
 		title: titleOrUntitled(row.title),
 		businessName: row.businessName,
@@ -45,7 +75,14 @@ export const actions = {
 			return fail(409, { problem: 'This booking is not waiting for payment.' });
 		}
 		const started = await startHeldFundsPayment(found.booking.id);
+		if ('ok' in started) return refusalFail(started);
 		if (started.status === 'redirect') redirect(303, started.url);
 		return fail(503, { problem: started.message });
+	},
+	cancel: async ({ params, cookies }) => {
+		const owner = requireRole('owner');
+		const result = await cancelPaidBooking(params.id, 'owner', owner.id);
+		if (!result.ok) return refusalFail(result);
+		redirectWithNotice(cookies, `/owner/bookings/${params.id}`, `Cancelled. ${result.rule}`);
 	}
 } satisfies Actions;

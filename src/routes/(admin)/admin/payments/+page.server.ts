@@ -1,0 +1,62 @@
+import { fail } from '@sveltejs/kit';
+import { z } from 'zod';
+import { requireRole } from '$lib/server/http/guards';
+import { readFormData } from '$lib/server/http/form-data';
+import { redirectWithNotice } from '$lib/server/http/notice';
+import { refusalFail } from '$lib/server/http/respond';
+import { refundHeldFunds, releaseHeldFunds } from '$lib/server/payments';
+import { listPaidBookingsForAdmin, reconcileWithProvider } from '$lib/server/receipts';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => {
+	requireRole('admin');
+	const [bookings, reconciliation] = await Promise.all([
+		listPaidBookingsForAdmin(),
+		reconcileWithProvider().catch(() => null)
+	]);
+	return {
+		reconciliation,
+		bookings: bookings.map((b) => ({
+			...b,
+			paidAt: b.paidAt?.toISOString() ?? null,
+			releasedAt: b.releasedAt?.toISOString() ?? null
+		}))
+	};
+};
+
+const bookingField = z.object({ bookingId: z.uuid() });
+const refundFields = bookingField.extend({
+	amount: z
+		.string()
+		.regex(/^\d+(\.\d{1,2})?$/, 'Enter the refund in dollars and cents, e.g. 25.00')
+		.transform((s) => Math.round(Number(s) * 100))
+});
+
+export const actions = {
+	// Release happens when the job is confirmed done (the lifecycle work calls releaseHeldFunds);
+	// until then an admin can release by hand.
+	release: async ({ request, cookies }) => {
+		requireRole('admin');
+		const data = await readFormData(request);
+		const parsed = bookingField.safeParse(data ? Object.fromEntries(data) : {});
+		if (!parsed.success) return fail(400, { problem: 'Choose a booking.' });
+		const result = await releaseHeldFunds(parsed.data.bookingId);
+		if (!result.ok) return refusalFail(result);
+		redirectWithNotice(
+			cookies,
+			'/admin/payments',
+			result.alreadyReleased ? 'That booking was paid out already.' : 'Released to the installer.'
+		);
+	},
+	refund: async ({ request, cookies }) => {
+		requireRole('admin');
+		const data = await readFormData(request);
+		const parsed = refundFields.safeParse(data ? Object.fromEntries(data) : {});
+		if (!parsed.success) {
+			return fail(400, { problem: parsed.error.issues[0]?.message ?? 'Check the refund.' });
+		}
+		const result = await refundHeldFunds(parsed.data.bookingId, parsed.data.amount);
+		if (!result.ok) return refusalFail(result);
+		redirectWithNotice(cookies, '/admin/payments', 'Refunded.');
+	}
+} satisfies Actions;
