@@ -41,7 +41,8 @@ const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 10);
 // Adelaide's centre and the demo installer's base near Norwood (from memory, to about 0.01°).
 const ADELAIDE = { lat: -34.9285, lng: 138.6007 };
 const DEMO_BASE = { lat: -34.921, lng: 138.63 };
-const SESSION = 'bench-session-demo-installer';
+// Lucia's session ids are 20–64 lower-case letters and digits (readSession refuses others).
+const SESSION = 'benchsessiondemoinstaller000000';
 
 const say = (s: string) => console.log(`\x1b[33m▸\x1b[0m ${s}`);
 const config = loadConfig('test');
@@ -139,7 +140,7 @@ async function buildMarket(client: pg.Client) {
 		where c.job_id = job.id`);
 	await client.query(`alter table quote enable trigger quote_live_count`);
 	await client.query(`insert into session (id, user_id, expires_at)
-		values ('${SESSION}', 'inst-demo', now() + interval '1 day')`);
+		values ('${SESSION}', 'inst-demo', now() + interval '30 days')`);
 	await client.query(`vacuum analyze`);
 }
 

@@ -263,11 +263,13 @@ describe('keyset paging', () => {
 		const rows = await insertJobs(specs);
 		const { id: quoter } = await makeInstaller({ base: centre, radiusKm: 5 });
 		// Quotes on some jobs, so the quote counts tie and differ.
-		await db.insert(quote).values(
-			rows
-				.filter((_r, i) => i % 4 === 1)
-				.map((r) => ({ jobId: r.id, installerId: quoter, totalCents: 30000 }))
-		);
+		await db
+			.insert(quote)
+			.values(
+				rows
+					.filter((_r, i) => i % 4 === 1)
+					.map((r) => ({ jobId: r.id, installerId: quoter, totalCents: 30000 }))
+			);
 		const { id } = await makeInstaller({ base: centre, radiusKm: 60 });
 		const ctx = await context(id);
 		const all = ids(await listOfferedJobs(ctx));
@@ -355,10 +357,12 @@ describe('live quote counts', () => {
 		expect(await count()).toBe(2);
 		await db.execute(sql`update quote set status = 'live' where id = ${made[0]!.id}`);
 		expect(await count()).toBe(3);
-		await db.transaction(async (tx) => {
-			await tx.execute(sql`delete from quote where id = ${made[2]!.id}`);
-			tx.rollback();
-		}).catch(() => undefined);
+		await db
+			.transaction(async (tx) => {
+				await tx.execute(sql`delete from quote where id = ${made[2]!.id}`);
+				tx.rollback();
+			})
+			.catch(() => undefined);
 		expect(await count()).toBe(3);
 		await db.execute(sql`delete from quote where id = ${made[2]!.id}`);
 		expect(await count()).toBe(2);

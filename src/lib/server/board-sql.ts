@@ -29,6 +29,18 @@ export type BoardInstaller = InstallerReach & { id: string };
 const geography = (p: LatLng): SQL =>
 	sql`st_setsrid(st_makepoint(${p.lng}::float8, ${p.lat}::float8), 4326)::geography`;
 
+/**
+ * `ST_DWithin(j.approx_location, point, metres, false)`, spelled out as the two halves PostGIS's
+ * own index support turns it into: the GiST box test (`&&` on the point's box grown by the
+ * distance) and the exact test on the sphere. Written whole, PostgreSQL estimates the exact test
+ * to keep about one row in ten thousand, and then never reads the nearest-first or date indexes
+ * for a page (bench/RESULTS.md showed the whole circle sorted for 25 rows); written so, the box
+ * test is estimated from the column's statistics. The answer is the same.
+ */
+function withinMetres(point: SQL, metres: SQL): SQL {
+	return sql`(j.approx_location && _st_expand(${point}, ${metres}) and _st_dwithin(j.approx_location, ${point}, ${metres}, false))`;
+}
+
 /** A PostgreSQL text[] literal, so a list travels as one parameter. */
 function textArray(values: readonly string[]): string {
 	return `{${values.map((v) => `"${v.replace(/["\\]/g, '\\$&')}"`).join(',')}}`;
@@ -43,7 +55,7 @@ function textArray(values: readonly string[]): string {
 function offeredTo(installer: InstallerReach): SQL {
 	const parts = [
 		sql`j.status = 'collecting_quotes'`,
-		sql`st_dwithin(j.approx_location, ${geography(installer.base)}, ${installer.serviceRadiusKm * 1000}::float8, false)`
+		withinMetres(geography(installer.base), sql`${installer.serviceRadiusKm * 1000}::float8`)
 	];
 	// "Needs none of the skills the installer lacks" is "required_skills <@ skills" (every needed
 	// skill is one of INSTALLER_SKILLS), and PostgreSQL estimates it far better, so the planner
@@ -157,7 +169,7 @@ function inBounds(box: BoundingBox): SQL {
 		)
 	);
 	// One metre over the farthest corner covers float rounding; the exact test above decides.
-	return sql`${exact} and st_dwithin(j.approx_location, ${geography(centre)}, ${reach * 1000 + 1}::float8, false)`;
+	return sql`${exact} and ${withinMetres(geography(centre), sql`${reach * 1000 + 1}::float8`)}`;
 }
 
 /** Every condition of a board query but the cursor: the installer's offer and the filters. */
@@ -167,9 +179,7 @@ function boardWhere(installer: BoardInstaller, query: Omit<BoardQuery, 'sort' | 
 	if (query.cameras) parts.push(sql`j.cameras = ${query.cameras}`);
 	if (query.power) parts.push(sql`j.power = ${query.power}`);
 	if (query.maxKm !== undefined) {
-		parts.push(
-			sql`st_dwithin(j.approx_location, ${geography(installer.base)}, ${query.maxKm * 1000}::float8, false)`
-		);
+		parts.push(withinMetres(geography(installer.base), sql`${query.maxKm * 1000}::float8`));
 	}
 	if (query.unquoted) {
 		parts.push(
@@ -238,7 +248,22 @@ export function boardPageSql(installer: BoardInstaller, query: BoardQuery): SQL 
 		);
 	}
 	const order = dir === 'asc' ? sql`asc` : sql`desc`;
-	return sql`
+	const where = sql.join(conditions, sql` and `);
+	// The KNN scan orders by distance alone, never by (distance, id), and jobs in one cell tie.
+	// So nearest first is two steps: the KNN scan reads the page's n + 1 rows to find how far the
+	// page reaches, then every row up to that distance (ties at the edge included) is sorted by
+	// (distance, id). Fewer rows than a page: the whole circle is the bound.
+	const edge =
+		query.sort === 'distance' && dir === 'asc'
+			? sql`with edge as (select coalesce((select j.approx_location <-> ${base} from job j where ${where}
+					order by j.approx_location <-> ${base} offset ${query.limit} limit 1),
+					${installer.serviceRadiusKm * 1000}::float8) as metres)`
+			: sql``;
+	const bounded =
+		query.sort === 'distance' && dir === 'asc'
+			? sql`${where} and ${withinMetres(base, sql`(select metres from edge)`)}`
+			: where;
+	return sql`${edge}
 		select page.*,
 			(select q.status from quote q where q.job_id = page.id and q.installer_id = ${installer.id}) as my_quote,
 			case when page.scope_summary is null then (select scope from job where id = page.id) end as legacy_scope
@@ -250,7 +275,7 @@ export function boardPageSql(installer: BoardInstaller, query: BoardQuery): SQL 
 				coalesce(j.submitted_at, j.created_at) as posted_at,
 				${sort.out(base)} as sort_value
 			from job j
-			where ${sql.join(conditions, sql` and `)}
+			where ${bounded}
 			order by ${sort.key(base)} ${order}, j.id ${order}
 			limit ${query.limit + 1}
 		) page

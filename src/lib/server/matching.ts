@@ -378,7 +378,10 @@ export async function sendNewJobDigests(now = new Date()): Promise<number> {
 			join "user" u on u.id = f.installer_id
 			order by f.installer_id, o.distance_m, j.id`);
 		type DigestJob = { title: string; suburb: string; distance: string };
-		const byInstaller = new Map<string, { email: string; displayName: string; jobs: DigestJob[] }>();
+		const byInstaller = new Map<
+			string,
+			{ email: string; displayName: string; jobs: DigestJob[] }
+		>();
 		for (const r of rows) {
 			const entry = byInstaller.get(r.installer_id) ?? {
 				email: r.email,
