@@ -259,8 +259,11 @@ async function explain(client: pg.Client, statement: SQL): Promise<string> {
 async function main() {
 	const cluster = ensureCluster(config, { say });
 	let app: ChildProcess | undefined;
-	// JIT off, as the app's pool has it (src/lib/server/db/index.ts).
-	const client = new pg.Client({ connectionString: databaseUrl, options: '-c jit=off' });
+	// The settings of the app's pool (src/lib/server/db/index.ts), so the plans are the app's.
+	const client = new pg.Client({
+		connectionString: databaseUrl,
+		options: '-c jit=off -c max_parallel_workers_per_gather=0'
+	});
 	try {
 		say(`Database ${database} on the test cluster (port ${String(config.pgPort)})`);
 		await ensureDatabase(config.adminUrl, database);

@@ -174,13 +174,16 @@ function inBounds(box: BoundingBox): SQL {
 
 /** Every condition of a board query but the cursor: the installer's offer and the filters. */
 function boardWhere(installer: BoardInstaller, query: Omit<BoardQuery, 'sort' | 'limit'>): SQL {
-	const parts = [offeredTo(installer)];
+	// "Within maxKm" narrows the circle itself: one distance test, not two (PostgreSQL would
+	// count each as a separate cut and expect too few rows).
+	const radiusKm =
+		query.maxKm === undefined
+			? installer.serviceRadiusKm
+			: Math.min(installer.serviceRadiusKm, query.maxKm);
+	const parts = [offeredTo({ ...installer, serviceRadiusKm: radiusKm })];
 	if (query.bodyStyle) parts.push(sql`j.body_style = ${query.bodyStyle}`);
 	if (query.cameras) parts.push(sql`j.cameras = ${query.cameras}`);
 	if (query.power) parts.push(sql`j.power = ${query.power}`);
-	if (query.maxKm !== undefined) {
-		parts.push(withinMetres(geography(installer.base), sql`${query.maxKm * 1000}::float8`));
-	}
 	if (query.unquoted) {
 		parts.push(
 			sql`not exists (select 1 from quote q where q.job_id = j.id and q.installer_id = ${installer.id})`
