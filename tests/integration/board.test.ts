@@ -392,7 +392,7 @@ describe('privacy', () => {
 			await searchBoard(ctx, boardQuerySchema.parse({})),
 			await searchBoard(ctx, boardQuerySchema.parse({ zoom: '18' })),
 			await searchBoard(ctx, boardQuerySchema.parse({ zoom: '4', sort: 'newest' })),
-			await listNewOfferedJobs(ctx),
+			await listNewOfferedJobs(ctx, { counted: true }),
 			...(await Promise.all(rows.map((r) => getJobForInstaller(r.id, ctx))))
 		];
 		const text = JSON.stringify(answers);
@@ -427,5 +427,37 @@ describe('privacy', () => {
 			sql`select count(*)::int as n from email_outbox where to_address = ${email} and template = 'new-jobs-digest'`
 		);
 		expect(mails.rows[0]!.n).toBe(1);
+	});
+});
+
+describe('new jobs this week', () => {
+	it('lists the unquoted jobs posted in the last week, newest first, with their number', async () => {
+		const at = { lat: -53.5, lng: 165 };
+		const now = new Date();
+		const days = (n: number) => new Date(now.getTime() - n * 86_400_000);
+		const spec = (submittedAt: Date): JobSpec => ({
+			at,
+			bodyStyle: 'sedan',
+			cameras: 'front',
+			power: 'socket',
+			locationMode: 'mobile',
+			submittedAt
+		});
+		const [older, recent, newest, quoted] = await insertJobs([
+			spec(days(9)),
+			spec(days(3)),
+			spec(days(1)),
+			spec(days(2))
+		]);
+		const { id } = await makeInstaller({ base: at, radiusKm: 10 });
+		await db.insert(quote).values({ jobId: quoted!.id, installerId: id, totalCents: 20000 });
+		const ctx = await context(id);
+		const all = await listNewOfferedJobs(ctx, { counted: true, now });
+		expect(all.jobs.map((j) => j.id)).toEqual([newest!.id, recent!.id]);
+		expect(all.total).toBe(2);
+		expect(all.jobs.map((j) => j.id)).not.toContain(older!.id);
+		const one = await listNewOfferedJobs(ctx, { limit: 1, counted: true, now });
+		expect(one.jobs.map((j) => j.id)).toEqual([newest!.id]);
+		expect(one.total).toBe(2);
 	});
 });

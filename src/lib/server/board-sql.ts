@@ -153,6 +153,9 @@ export const boardQuerySchema = z.object({
 });
 export type BoardQuery = z.output<typeof boardQuerySchema>;
 
+/** A board query as the server builds it: the API's parameters, and a posting-date limit. */
+export type BoardSqlQuery = Omit<BoardQuery, 'sort' | 'limit'> & { postedSince?: Date };
+
 /**
  * The map's bounds as SQL on the cell centre the installer sees, never the hidden true point: the
  * exact latitude/longitude test, plus a circle round the box (centre to farthest corner, in the
@@ -173,7 +176,7 @@ function inBounds(box: BoundingBox): SQL {
 }
 
 /** Every condition of a board query but the cursor: the installer's offer and the filters. */
-function boardWhere(installer: BoardInstaller, query: Omit<BoardQuery, 'sort' | 'limit'>): SQL {
+function boardWhere(installer: BoardInstaller, query: BoardSqlQuery): SQL {
 	// "Within maxKm" narrows the circle itself: one distance test, not two (PostgreSQL would
 	// count each as a separate cut and expect too few rows).
 	const radiusKm =
@@ -190,6 +193,9 @@ function boardWhere(installer: BoardInstaller, query: Omit<BoardQuery, 'sort' | 
 		);
 	}
 	if (query.bounds) parts.push(inBounds(query.bounds));
+	if (query.postedSince) {
+		parts.push(sql`j.submitted_at >= ${query.postedSince.toISOString()}::timestamptz`);
+	}
 	return sql.join(parts, sql` and `);
 }
 
@@ -235,7 +241,10 @@ const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
  * column) the scope for those rows only. One row more than the page says whether there is more.
  * @returns null when the cursor is not one this API made for this sort
  */
-export function boardPageSql(installer: BoardInstaller, query: BoardQuery): SQL | null {
+export function boardPageSql(
+	installer: BoardInstaller,
+	query: BoardQuery & { postedSince?: Date }
+): SQL | null {
 	const sort = SORT_KEYS[query.sort];
 	const dir = query.dir ?? BOARD_DEFAULT_DIR[query.sort];
 	const base = geography(installer.base);
@@ -317,6 +326,6 @@ export function boardClustersSql(installer: BoardInstaller, query: BoardQuery, z
 }
 
 /** How many offered jobs match the query (its cursor aside): one count over the circle's index. */
-export function boardTotalSql(installer: BoardInstaller, query: BoardQuery): SQL {
+export function boardTotalSql(installer: BoardInstaller, query: BoardSqlQuery): SQL {
 	return sql`select count(*)::int as n from job j where ${boardWhere(installer, query)}`;
 }

@@ -17,7 +17,8 @@ import {
 	boardQuerySchema,
 	boardTotalSql,
 	REACHES,
-	type BoardQuery
+	type BoardQuery,
+	type BoardSqlQuery
 } from './board-sql';
 import {
 	approximateLocation,
@@ -167,7 +168,7 @@ function toBoardJob(r: BoardRow): BoardJob {
  * One page of offered jobs (see boardPageSql).
  * @returns null when the cursor is not one this API made for this sort
  */
-async function boardPage(installer: InstallerContext, query: BoardQuery) {
+async function boardPage(installer: InstallerContext, query: BoardQuery & { postedSince?: Date }) {
 	const statement = boardPageSql(installer, query);
 	if (!statement) return null;
 	const { rows } = await db.execute<BoardRow>(statement);
@@ -202,7 +203,7 @@ async function boardClusters(
 }
 
 /** How many offered jobs match the query (see boardTotalSql). */
-async function boardTotal(installer: InstallerContext, query: BoardQuery): Promise<number> {
+async function boardTotal(installer: InstallerContext, query: BoardSqlQuery): Promise<number> {
 	const { rows } = await db.execute<{ n: number }>(boardTotalSql(installer, query));
 	return rows[0]?.n ?? 0;
 }
@@ -257,20 +258,25 @@ export async function listOfferedJobs(installer: InstallerContext, box?: Boundin
 
 /**
  * The newest open jobs offered to the installer that they have not quoted, posted in the last
- * `days` days: one page of the "newest" sort with a date limit.
+ * `days` days: one page of the "newest" sort with a date limit in SQL, and with `counted` how
+ * many there are in all (one count on the circle's index).
  */
 export async function listNewOfferedJobs(
 	installer: InstallerContext,
-	options: { days?: number; limit?: number; now?: Date } = {}
+	options: { days?: number; limit?: number; now?: Date; counted?: boolean } = {}
 ) {
-	const since = new Date((options.now ?? new Date()).getTime() - (options.days ?? 7) * 86_400_000);
-	const query = boardQuerySchema.parse({
-		sort: 'newest',
-		unquoted: '1',
-		limit: String(options.limit ?? 8)
-	});
-	const page = await boardPage(installer, query);
-	return (page?.jobs ?? []).filter((j) => new Date(j.postedAt) >= since);
+	const postedSince = new Date(
+		(options.now ?? new Date()).getTime() - (options.days ?? 7) * 86_400_000
+	);
+	const query = {
+		...boardQuerySchema.parse({ sort: 'newest', unquoted: '1', limit: String(options.limit ?? 8) }),
+		postedSince
+	};
+	const [page, total] = await Promise.all([
+		boardPage(installer, query),
+		options.counted ? boardTotal(installer, query) : null
+	]);
+	return { jobs: page?.jobs ?? [], total };
 }
 
 /** What an installer may see of one job, and whether it is booked with them. */

@@ -45,6 +45,6 @@ export const load: PageServerLoad = async ({ url }) => {
 			dir: query.dir ?? null
 		},
 		badQuery: parsed.success ? null : parsed.error.issues.map((i) => i.message).join('; '),
-		newJobs: fresh
+		newJobs: fresh.jobs
 	};
 };
