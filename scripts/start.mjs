@@ -120,7 +120,6 @@ async function main() {
 		databaseUrl = config.dbUrl('tapline');
 	}
 	await report.step('migrations', () => migrateDatabase(databaseUrl));
-	await report.step('demo data', (step) => seedDatabase(databaseUrl, report.run).then(step.note));
 
 	// The fakes keep uploads and mail beside the database, so they survive a restart together.
 	const fakesData = process.env.FAKES_DATA_DIR || path.join(dataBase, `fakes-${config.pgPort}`);
@@ -139,6 +138,10 @@ async function main() {
 		step.note(`uploads and mail kept in ${path.relative(ROOT, fakesData) || fakesData}`);
 		return child;
 	});
+	// After the fakes: the seed stores the demo installers' documents in the object store.
+	await report.step('demo data', (step) =>
+		seedDatabase(databaseUrl, report.run, env).then(step.note)
+	);
 
 	const buildDir = process.env.TAPLINE_BUILD_DIR || 'build';
 	await report.step('build', (step) =>

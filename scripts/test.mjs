@@ -156,10 +156,6 @@ async function main() {
 		);
 
 	if (steps.has('e2e')) {
-		await report.step('e2e database', async (step) => {
-			await db.ensureDatabase(config.adminUrl, e2eDb, templateDb);
-			step.note(await db.seedDatabase(env.DATABASE_URL, report.run));
-		});
 		const fakes = await report.step('local fakes', async () => {
 			const child = processes.startChild(
 				'fakes',
@@ -170,6 +166,11 @@ async function main() {
 			);
 			await processes.waitForChildPorts(child, Object.values(config.fakes), 30_000);
 			return child;
+		});
+		// After the fakes: the seed stores the demo installers' documents in the object store.
+		await report.step('e2e database', async (step) => {
+			await db.ensureDatabase(config.adminUrl, e2eDb, templateDb);
+			step.note(await db.seedDatabase(env.DATABASE_URL, report.run, env));
 		});
 		const app = await report.step('app', async () => {
 			const child = processes.startChild(

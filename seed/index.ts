@@ -13,6 +13,7 @@ import {
 	vettingEvent
 } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/password';
+import { demoDocumentFiles, storeDemoObjects, type DemoObject } from './documents';
 import { seedDemoJobs } from './jobs';
 import {
 	DEMO_ADMIN,
@@ -27,7 +28,10 @@ import {
 
 const ALL_TICKED = { identityMatches: true, insuranceCurrent: true, abnValidAndActive: true };
 
-/** Inserts the scenario in one transaction; returns false when the database already had accounts. */
+/**
+ * Inserts the scenario in one transaction, then stores the demo installers' documents in the
+ * object store (when S3_ENDPOINT is set); returns false when the database already had accounts.
+ */
 export async function seedDemo(databaseUrl: string): Promise<boolean> {
 	const pool = new pg.Pool({ connectionString: databaseUrl, max: 2 });
 	const db = drizzle(pool);
@@ -35,6 +39,9 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 		const [existing] = await db.select({ n: count() }).from(user);
 		if ((existing?.n ?? 0) > 0) return false;
 		const passwordHash = await hashPassword(DEMO_PASSWORD);
+		const files = await demoDocumentFiles();
+		const sizes = { insurance: files.insurance.byteLength, photoId: files.photoId.byteLength };
+		const objects: DemoObject[] = [];
 		const verified = new Date();
 		const adminId = crypto.randomUUID();
 		await db.transaction(async (tx) => {
@@ -85,13 +92,27 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 					.insert(installerHours)
 					.values(demoWeeklyHours(index).map((h) => ({ installerId: id, ...h })));
 				// Every demo application was sent, so each has what sending requires.
+				const documents = demoVettingDocuments(id, sizes);
 				await tx
 					.insert(installerDocument)
-					.values(demoVettingDocuments(id).map((d) => ({ ...d, installerId: id })));
+					.values(documents.map((d) => ({ ...d, installerId: id })));
+				for (const d of documents) {
+					objects.push({
+						objectKey: d.objectKey,
+						contentType: d.contentType,
+						body: d.kind === 'insurance' ? files.insurance : files.photoId
+					});
+				}
 				await tx.insert(vettingEvent).values(demoTrail(id, adminId, i.status, submittedAt));
 			}
 		});
 		await seedDemoJobs(db, verified);
+		const stored = await storeDemoObjects(objects);
+		if (stored === null) {
+			console.warn(
+				'S3_ENDPOINT is not set: the demo documents are listed but their files are not stored.'
+			);
+		}
 		return true;
 	} finally {
 		await pool.end();

@@ -238,23 +238,26 @@ export function demoWeeklyHours(index: number) {
 /**
  * The documents an application needs before it can be sent (and an admin can approve it): an
  * insurance certificate and photo ID (src/lib/vetting.ts, missingParts and approvalProblems).
- * The rows name objects under `demo/`; the object store does not hold them when the seed runs
- * (it runs before the local fakes), so opening one answers 404 like any missing file.
+ * The rows name objects under `demo/`; seed/documents.ts generates the files and stores them.
+ * @param sizes the generated files' sizes in bytes
  */
-export function demoVettingDocuments(installerId: string) {
+export function demoVettingDocuments(
+	installerId: string,
+	sizes: { insurance: number; photoId: number }
+) {
 	return [
 		{
 			kind: 'insurance' as const,
 			objectKey: `demo/installer-documents/${installerId}/insurance-certificate.pdf`,
 			contentType: 'application/pdf',
-			bytes: 48_213,
+			bytes: sizes.insurance,
 			originalName: 'insurance-certificate.pdf'
 		},
 		{
 			kind: 'photo-id' as const,
 			objectKey: `demo/installer-documents/${installerId}/photo-id.jpg`,
 			contentType: 'image/jpeg',
-			bytes: 231_877,
+			bytes: sizes.photoId,
 			originalName: 'photo-id.jpg'
 		}
 	];

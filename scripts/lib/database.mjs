@@ -52,9 +52,10 @@ export async function migrateDatabase(url) {
 /**
  * Loads the demo scenario when the database has no accounts yet, through `run` (a report's run).
  * Returns 'loaded' or 'already there'. The check is a query here, so a later start does not pay
- * for starting tsx; the seed checks again itself.
+ * for starting tsx; the seed checks again itself. `storageEnv` (S3_ENDPOINT and the rest) lets
+ * the seed store the demo documents' files, so the object store must be running first.
  */
-export async function seedDatabase(url, run) {
+export async function seedDatabase(url, run, storageEnv = {}) {
 	const client = new pg.Client({ connectionString: url });
 	await client.connect();
 	try {
@@ -64,7 +65,7 @@ export async function seedDatabase(url, run) {
 		await client.end();
 	}
 	const output = await run(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['seed/index.ts'], {
-		env: { DATABASE_URL: url }
+		env: { ...storageEnv, DATABASE_URL: url }
 	});
 	return /skipped/.test(output) ? 'already there' : 'loaded';
 }

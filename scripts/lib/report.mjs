@@ -65,7 +65,8 @@ const EXPECTED = [
 	},
 	{
 		key: 'aws-sdk-node-version',
-		test: (line) => /NodeVersionSupportWarning/.test(line),
+		// Node prints its own "(Use `node --trace-warnings ...`" hint after the warning.
+		test: (line) => /NodeVersionSupportWarning|^\(Use `node --trace-warnings/.test(line),
 		why: () =>
 			'the AWS SDK says its versions published from 2027 will need Node 22. Tapline runs on Node 20 and its locked SDK supports it.'
 	}

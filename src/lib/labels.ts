@@ -7,7 +7,7 @@ import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 // Types only (erased at build): the database enums are the one list of each status.
-import type { Booking, Job, Quote } from './server/db/schema';
+import type { Booking, Job, Quote, Role } from './server/db/schema';
 import type {
 	AdminDecision,
 	ChecklistItem,
@@ -17,6 +17,26 @@ import type {
 	VettingAction,
 	VettingStage
 } from './vetting';
+
+/** Who an account is on Tapline. */
+export const ROLE_LABELS: Record<Role, string> = {
+	owner: 'Car owner',
+	installer: 'Installer',
+	admin: 'Admin'
+};
+
+/** Whether an account may sign in. */
+export const ACCOUNT_STANDING_LABELS: Record<'active' | 'suspended', string> = {
+	active: 'Active',
+	suspended: 'Suspended'
+};
+
+/** The admin actions the account audit trail records. */
+export const ADMIN_ACTION_LABELS: Record<string, string> = {
+	suspend: 'Suspended the account',
+	reinstate: 'Lifted the suspension',
+	'force-password-reset': 'Asked for a new password'
+};
 
 export const STAGE_LABELS: Record<VettingStage, string> = {
 	draft: 'Not sent yet',
@@ -134,7 +154,7 @@ export const BOOKING_STATUS_LABELS: Record<Booking['status'], string> = {
 
 /** What happened in an installer's vetting history, as an audit line. */
 export const VETTING_ACTION_LABELS: Record<
-	VettingAction | 'insurance-updated' | 'service-area-moved',
+	VettingAction | 'insurance-updated' | 'service-area-moved' | 'account-closed',
 	string
 > = {
 	submit: 'Application sent',
@@ -146,7 +166,8 @@ export const VETTING_ACTION_LABELS: Record<
 	'approve-insurance': 'New insurance approved',
 	pause: 'Quoting paused',
 	'insurance-updated': 'Insurance details changed',
-	'service-area-moved': 'Service area moved'
+	'service-area-moved': 'Service area moved',
+	'account-closed': 'The installer closed their account'
 };
 
 /** Where the owner's car is fitted, in the owner's words. */

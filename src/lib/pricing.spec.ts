@@ -117,7 +117,7 @@ describe('quoteProblems', () => {
 			...good,
 			slots: [good.slots[0]!, slot('2026-06-06', '09:00', '11:00')]
 		});
-		expect(saturday).toEqual(['The time Sat 6 Jun, 9:00 AM is outside your working hours.']);
+		expect(saturday).toEqual(['The time Sat 6 Jun, 9:00 am is outside your working hours.']);
 		const evening = quoteProblems({
 			...good,
 			slots: [good.slots[0]!, slot('2026-06-04', '16:00', '18:00')]
@@ -141,7 +141,7 @@ describe('quoteProblems', () => {
 			slots: [good.slots[0]!, slot('2026-06-03', '10:00', '12:00')]
 		});
 		expect(overlapping).toEqual([
-			'The time Wed 3 Jun, 10:00 AM overlaps another time you offered.'
+			'The time Wed 3 Jun, 10:00 am overlaps another time you offered.'
 		]);
 		expect(quoteProblems({ ...good, expiresAt: new Date(now.getTime() - 1) })).toEqual([
 			'The expiry date has passed; choose a later one.'

@@ -164,7 +164,7 @@ export function quoteProblems(input: QuoteCheckInput): string[] {
 	}
 	const sorted = [...input.slots].sort((a, b) => a.start.getTime() - b.start.getTime());
 	sorted.forEach((slot, i) => {
-		const label = `The time ${formatSlotStart(slot.start, input.timeZone)}`;
+		const label = `The time ${formatSlotStart(slot.start, input.timeZone, input.now)}`;
 		if (slot.end.getTime() <= slot.start.getTime()) {
 			problems.push(`${label} ends before it starts.`);
 			return;

@@ -320,8 +320,8 @@ describe('resolveSlotStart', () => {
 	it('offers both readings of a repeated time and finds which one a saved slot is', () => {
 		// Source: IANA tz rule AS and 'australasia' abbreviations ACDT/ACST.
 		expect(repeatedTimeOptions('2026-04-05', '02:30', ZONE_AT)).toEqual([
-			{ value: 'earlier', label: '2:30 AM ACDT (first)' },
-			{ value: 'later', label: '2:30 AM ACST (second)' }
+			{ value: 'earlier', label: '2:30 am ACDT (first)' },
+			{ value: 'later', label: '2:30 am ACST (second)' }
 		]);
 		expect(repeatedTimeOptions('2026-04-05', '09:00', ZONE_AT)).toEqual([]);
 		expect(repeatedTimeOptions('2026-02-31', '09:00', ZONE_AT)).toEqual([]);
@@ -333,23 +333,34 @@ describe('resolveSlotStart', () => {
 
 describe('formatSlotLabel and formatSlotStart', () => {
 	const ZONE_AT = 'Australia/Adelaide';
+	const NOW = new Date('2026-03-01T00:00:00Z');
 
 	it('adds the zone abbreviation only where two times could read alike', () => {
 		// Source: IANA tz rule AS, 2026 changes; abbreviations ACST/ACDT.
 		expect(
-			formatSlotLabel({ start: '2026-04-04T23:30:00Z', end: '2026-04-05T01:30:00Z' }, ZONE_AT)
-		).toBe('Sun 5 Apr, 9:00 AM – 11:00 AM');
+			formatSlotLabel({ start: '2026-04-04T23:30:00Z', end: '2026-04-05T01:30:00Z' }, ZONE_AT, NOW)
+		).toBe('Sun 5 Apr, 9:00 am – 11:00 am');
 		// Starts in the repeated hour and ends after the change: both times tagged.
 		expect(
-			formatSlotLabel({ start: '2026-04-04T16:00:00Z', end: '2026-04-04T19:00:00Z' }, ZONE_AT)
-		).toBe('Sun 5 Apr, 2:30 AM ACDT – 4:30 AM ACST');
+			formatSlotLabel({ start: '2026-04-04T16:00:00Z', end: '2026-04-04T19:00:00Z' }, ZONE_AT, NOW)
+		).toBe('Sun 5 Apr, 2:30 am ACDT – 4:30 am ACST');
 		// The second 2:30 am reads differently from the first.
-		expect(formatSlotStart(new Date('2026-04-04T17:00:00Z'), ZONE_AT)).toBe(
-			'Sun 5 Apr, 2:30 AM ACST'
+		expect(formatSlotStart(new Date('2026-04-04T17:00:00Z'), ZONE_AT, NOW)).toBe(
+			'Sun 5 Apr, 2:30 am ACST'
 		);
 		// Across the October jump: 12:30 am ACST to 3:30 am ACDT is two hours, not three.
 		expect(
-			formatSlotLabel({ start: '2026-10-03T15:00:00Z', end: '2026-10-03T17:00:00Z' }, ZONE_AT)
-		).toBe('Sun 4 Oct, 12:30 AM ACST – 3:30 AM ACDT');
+			formatSlotLabel({ start: '2026-10-03T15:00:00Z', end: '2026-10-03T17:00:00Z' }, ZONE_AT, NOW)
+		).toBe('Sun 4 Oct, 12:30 am ACST – 3:30 am ACDT');
+	});
+
+	it('names the year when the slot is not in this year', () => {
+		expect(
+			formatSlotLabel(
+				{ start: '2027-01-05T23:30:00Z', end: '2027-01-06T01:30:00Z' },
+				ZONE_AT,
+				new Date('2026-12-02T00:00:00Z')
+			)
+		).toBe('Wed 6 Jan 2027, 10:00 am – 12:00 pm');
 	});
 });

@@ -6,6 +6,7 @@
  */
 import {
 	describeClockChange,
+	formatDay,
 	formatInZone,
 	isRepeatedWallTime,
 	localToUtc,
@@ -275,41 +276,50 @@ export function repeatedTimeOptions(
 	}
 	if (resolved.kind !== 'repeated') return [];
 	const label = (d: Date, which: string) =>
-		`${formatInZone(d, zone, 'h:mm a')} ${zoneAbbreviation(d, zone)} (${which})`;
+		`${clockTime(d, zone)} ${zoneAbbreviation(d, zone)} (${which})`;
 	return [
 		{ value: 'earlier', label: label(resolved.earlier, 'first') },
 		{ value: 'later', label: label(resolved.later, 'second') }
 	];
 }
 
+/** A wall-clock time as people read it on every page: '9:00 am'. */
+function clockTime(instant: Date, zone: string): string {
+	return formatInZone(instant, zone, 'h:mm a').toLowerCase();
+}
+
 /**
- * A slot as local time, e.g. 'Wed 3 Jun, 9:00 AM – 11:00 AM'. Where a time could be read two
- * ways (it falls in the hour the clocks repeat) or the slot runs across a clock change, each
- * time carries the zone abbreviation: 'Sun 5 Apr, 2:30 AM ACDT – 4:30 AM ACST'.
+ * A slot as local time in the one date style of time.ts, e.g. 'Wed 3 Jun, 9:00 am – 11:00 am'
+ * (with the year when it is not this year). Where a time could be read two ways (it falls in
+ * the hour the clocks repeat) or the slot runs across a clock change, each time carries the zone
+ * abbreviation: 'Sun 5 Apr, 2:30 am ACDT – 4:30 am ACST'.
  * @param slot start and end instants (Date or ISO string)
  * @param zone IANA zone name
+ * @param now the present, for the year rule
  */
 export function formatSlotLabel(
 	slot: { start: Date | string; end: Date | string },
-	zone: string
+	zone: string,
+	now: Date = new Date()
 ): string {
 	const start = new Date(slot.start);
 	const end = new Date(slot.end);
 	const spansChange = utcOffsetMinutes(start, zone) !== utcOffsetMinutes(end, zone);
 	const tag = (d: Date) =>
 		spansChange || isRepeatedWallTime(d, zone) ? ` ${zoneAbbreviation(d, zone)}` : '';
-	return `${formatInZone(start, zone, 'EEE d MMM, h:mm a')}${tag(start)} – ${formatInZone(end, zone, 'h:mm a')}${tag(end)}`;
+	return `${formatDay(start, zone, now)}, ${clockTime(start, zone)}${tag(start)} – ${clockTime(end, zone)}${tag(end)}`;
 }
 
 /**
- * A slot's start for messages, e.g. 'Sun 5 Apr, 2:30 AM ACDT' (abbreviation only where the time
+ * A slot's start for messages, e.g. 'Sun 5 Apr, 2:30 am ACDT' (abbreviation only where the time
  * could be read two ways).
  * @param start the instant
  * @param zone IANA zone name
+ * @param now the present, for the year rule
  */
-export function formatSlotStart(start: Date, zone: string): string {
+export function formatSlotStart(start: Date, zone: string, now: Date = new Date()): string {
 	const tag = isRepeatedWallTime(start, zone) ? ` ${zoneAbbreviation(start, zone)}` : '';
-	return `${formatInZone(start, zone, 'EEE d MMM, h:mm a')}${tag}`;
+	return `${formatDay(start, zone, now)}, ${clockTime(start, zone)}${tag}`;
 }
 
 /**

@@ -4,6 +4,7 @@ import {
 	describeClockChange,
 	formatDay,
 	formatDayTime,
+	formatDayTimeRange,
 	formatInZone,
 	isRepeatedWallTime,
 	localToUtc,
@@ -201,5 +202,24 @@ describe('formatDay and formatDayTime: one date style for people', () => {
 	it('says "this year" by the zone: 31 Dec 14:00 UTC is New Year in Adelaide', () => {
 		const newYearInAdelaide = new Date('2026-12-31T14:00:00Z');
 		expect(formatDay('2027-01-05', ZONE, newYearInAdelaide)).toBe('Tue 5 Jan');
+	});
+});
+
+describe('formatDayTimeRange: a booked slot in the same style', () => {
+	// Source: IANA tz 'australasia', Adelaide is UTC+10:30 in December (daylight time).
+	const now = new Date('2026-12-02T00:00:00Z');
+
+	it('writes the day once when the span ends the same day', () => {
+		const start = new Date('2026-12-07T22:30:00Z'); // Tue 8 Dec, 9:00 am in Adelaide
+		const end = new Date('2026-12-08T00:30:00Z'); // 11:00 am
+		expect(formatDayTimeRange(start, end, ZONE, now)).toBe('Tue 8 Dec, 9:00 am – 11:00 am');
+	});
+
+	it('writes both days when the span runs past midnight, with the year when not this year', () => {
+		const start = new Date('2027-01-05T05:30:00Z'); // Tue 5 Jan 2027, 4:00 pm
+		const end = new Date('2027-01-05T22:30:00Z'); // Wed 6 Jan 2027, 9:00 am
+		expect(formatDayTimeRange(start, end, ZONE, now)).toBe(
+			'Tue 5 Jan 2027, 4:00 pm – Wed 6 Jan 2027, 9:00 am'
+		);
 	});
 });

@@ -272,3 +272,24 @@ export function formatDayTime(
 ): string {
 	return `${formatDay(instant, zone, now)}, ${formatInZone(instant, zone, 'h:mm a').toLowerCase()}`;
 }
+
+/**
+ * A span of time as people read it: 'Tue 8 Dec, 9:00 am – 11:00 am', or with both days when it
+ * ends on another day ('Tue 8 Dec, 4:00 pm – Wed 9 Dec, 9:00 am'); days as in {@link formatDay}.
+ * @param start the first moment
+ * @param end the last moment
+ * @param zone IANA zone both are shown in
+ * @param now the present, for the year rule
+ */
+export function formatDayTimeRange(
+	start: Date,
+	end: Date,
+	zone: string = DEFAULT_TIME_ZONE,
+	now: Date = new Date()
+): string {
+	const sameDay = formatInZone(start, zone, 'yyyy-MM-dd') === formatInZone(end, zone, 'yyyy-MM-dd');
+	const finish = sameDay
+		? formatInZone(end, zone, 'h:mm a').toLowerCase()
+		: formatDayTime(end, zone, now);
+	return `${formatDayTime(start, zone, now)} – ${finish}`;
+}

@@ -1,7 +1,8 @@
 import { takeNotice } from '$lib/server/http/notice';
+import { getAdminQueueCounts } from '$lib/server/metrics';
 import type { LayoutServerLoad } from './$types';
 
-export const load: LayoutServerLoad = ({ locals, cookies }) => {
+export const load: LayoutServerLoad = async ({ locals, cookies }) => {
 	// Only fields that are safe to show in the browser.
 	const user = locals.user
 		? {
@@ -10,5 +11,7 @@ export const load: LayoutServerLoad = ({ locals, cookies }) => {
 				emailVerified: locals.user.emailVerified
 			}
 		: null;
-	return { user, notice: takeNotice(cookies) };
+	// Admins see what waits on them beside the navigation, on every page.
+	const queues = locals.user?.role === 'admin' ? await getAdminQueueCounts() : null;
+	return { user, queues, notice: takeNotice(cookies) };
 };

@@ -11,7 +11,7 @@ test('no session: a role area sends you to sign in and back again', async ({ pag
 
 test('an owner is refused the installer and admin areas', async ({ ownerPage: page }) => {
 	await expect(page).toHaveURL(/\/owner$/);
-	for (const path of ['/installer', '/admin', '/admin/team']) {
+	for (const path of ['/installer', '/admin', '/admin/team', '/admin/users']) {
 		const res = await page.goto(path);
 		expect(res?.status()).toBe(403);
 		await expect(page.getByText('Not for this account')).toBeVisible();
@@ -34,6 +34,12 @@ test('a form action in a role area is refused to the wrong role too', async ({
 		headers: { origin: new URL(page.url()).origin }
 	});
 	expect(res.status()).toBe(403);
+	// Suspending an account is an admin's action: an owner posting it is refused and nothing changes.
+	const suspend = await page.request.post(`/admin/users/${crypto.randomUUID()}?/suspend`, {
+		form: { reason: 'Trying my luck', confirm: 'true' },
+		headers: { origin: new URL(page.url()).origin }
+	});
+	expect(suspend.status()).toBe(403);
 });
 
 test('an admin sees the overview and adds another admin, who is e-mailed', async ({

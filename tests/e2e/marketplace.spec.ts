@@ -85,7 +85,15 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await owner.getByRole('link', { name: JOB }).first().click();
 	// Quotes are in, so the details are locked, and the page says why.
 	await expect(owner.getByRole('link', { name: 'Edit details' })).toHaveCount(0);
-	await expect(owner.getByTestId('edit-locked')).toContainText('installers have quoted');
+	await expect(owner.getByTestId('edit-locked')).toContainText('installers have priced them');
+	// Dates and a note can still change; both quoting installers are told.
+	await owner.getByText('Change dates or note…').click();
+	await owner.getByLabel('Note to installers (optional)').fill('In the carport, side gate open.');
+	await owner.getByRole('button', { name: 'Save and tell installers' }).click();
+	await expect(owner.getByText('Saved, and the 2 installers who quoted were told.')).toBeVisible();
+	await expect(owner.getByTestId('owner-note')).toHaveText('In the carport, side gate open.');
+	const adjusted = await waitForMail(RUTH, /changed the note of/);
+	expect(adjusted.text).toContain('Your quote stands as sent');
 	await owner.getByRole('link', { name: /Compare quotes \(2\)/ }).click();
 	await expect(owner.getByRole('heading', { name: 'Compare quotes' })).toBeVisible();
 	await expect(owner.getByTestId('quote-row')).toHaveCount(2);
@@ -165,6 +173,7 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	// A provisional booking shows the installer neither the owner's name nor the address.
 	await demo.reload();
 	await expect(demo.getByText('Provisionally booked with you')).toBeVisible();
+	await expect(demo.getByTestId('owner-note')).toHaveText('In the carport, side gate open.');
 	await expect(demo.getByTestId('booked-details')).toHaveCount(0);
 	await expect(demo.getByText('14 Demo Court')).toHaveCount(0);
 	await expect(demo.getByText('Marnie Okafor')).toHaveCount(0);

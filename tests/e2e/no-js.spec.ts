@@ -1,4 +1,5 @@
 import { expect, test } from '@playwright/test';
+import { newAccount } from './support/requests';
 
 // Runs in the `no-javascript` project: the forms must work as plain HTML posts.
 test('sign-in without JavaScript: errors come back from the server, success signs in', async ({
@@ -50,4 +51,38 @@ test('the first job step works without JavaScript', async ({ page }) => {
 	await page.getByRole('radio', { name: 'No', exact: true }).check();
 	await page.getByRole('button', { name: 'Save and continue' }).click();
 	await expect(page.getByRole('heading', { name: 'The cameras' })).toBeVisible();
+});
+
+test('the account page works without JavaScript: refusals and changes come from the server', async ({
+	browser,
+	page
+}) => {
+	const me = await newAccount(browser, 'installer', 'account-no-js');
+	await page.goto('/sign-in');
+	await page.getByLabel('E-mail').fill(me.email);
+	await page.getByLabel('Password').fill('long enough passphrase');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await page.goto('/account');
+	await page.getByLabel('Name', { exact: true }).fill('');
+	await page.getByRole('button', { name: 'Save the name' }).click();
+	await expect(page.getByText('Tell us your name (at least 2 characters)')).toBeVisible();
+	await page.getByLabel('Name', { exact: true }).fill('Kit Marlow');
+	await page.getByRole('button', { name: 'Save the name' }).click();
+	await expect(page.getByText('Your name is now Kit Marlow.')).toBeVisible();
+
+	const closeForm = page.locator('form[action="?/closeAccount"]');
+	await closeForm.getByLabel('Current password').fill('long enough passphrase');
+	await closeForm.getByRole('button', { name: 'Close my account' }).click();
+	await expect(page.getByText('Tick the box to say you understand').first()).toBeVisible();
+	await page
+		.locator('form[action="?/closeAccount"]')
+		.getByLabel('Current password')
+		.fill('long enough passphrase');
+	await page.getByLabel('I understand that closing cannot be undone').check();
+	await page.getByRole('button', { name: 'Close my account' }).click();
+	await expect(
+		page.getByText('Your account is closed and every device is signed out.')
+	).toBeVisible();
+	await expect(page.getByRole('link', { name: 'Sign in' })).toBeVisible();
+	await me.context.close();
 });

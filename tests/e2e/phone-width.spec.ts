@@ -40,7 +40,7 @@ test('public and sign-in pages fit a 360 px phone', async ({ page }) => {
 test("an owner's pages fit a 360 px phone", async ({ page }) => {
 	await signIn(page, DEMO.owner);
 	const job = await firstLink(page, '/owner', /^\/owner\/jobs\/[0-9a-f-]{36}$/);
-	const paths = ['/owner', '/owner/jobs/new', job, `${job}/quotes`];
+	const paths = ['/owner', '/owner/jobs/new', job, `${job}/quotes`, '/account'];
 	const quote = await firstLink(page, `${job}/quotes`, /\/quotes\/[0-9a-f-]{36}$/).catch(
 		() => null
 	);
@@ -66,7 +66,11 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 		'/installer/application',
 		'/installer/documents',
 		'/installer/service-area',
-		'/installer/hours'
+		'/installer/hours',
+		'/installer/fits',
+		'/installer/quotes',
+		'/installer/messages',
+		'/account'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });
@@ -74,7 +78,16 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 test("an admin's pages fit a 360 px phone", async ({ page }) => {
 	await signIn(page, DEMO.admin);
 	const application = await firstLink(page, '/admin/vetting', /^\/admin\/vetting\/[0-9a-f-]{36}$/);
-	const paths = ['/admin', '/admin/vetting', application, '/admin/team'];
+	const account = await firstLink(page, '/admin/users', /^\/admin\/users\/[0-9a-f-]{36}$/);
+	const paths = [
+		'/admin',
+		'/admin/vetting',
+		application,
+		'/admin/team',
+		'/admin/users',
+		account,
+		'/account'
+	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });
 

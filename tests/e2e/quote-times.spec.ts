@@ -32,8 +32,8 @@ test('a quote time the clocks skip is refused, and a repeated one asks which', a
 	const which = form.getByLabel('Time 2: which one');
 	await expect(which.locator('option')).toHaveText([
 		'Choose…',
-		'2:30 AM ACDT (first)',
-		'2:30 AM ACST (second)'
+		'2:30 am ACDT (first)',
+		'2:30 am ACST (second)'
 	]);
 	await which.selectOption('later');
 	await form.getByRole('button', { name: /Send the/ }).click();

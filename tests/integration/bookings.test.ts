@@ -1,7 +1,7 @@
 import { and, eq, inArray } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
-import { booking, emailOutbox, job, quote } from '$lib/server/db/schema';
+import { booking, emailOutbox, job, quote, user } from '$lib/server/db/schema';
 import {
 	bookQuote,
 	confirmBooking,
@@ -33,6 +33,15 @@ async function jobWithQuotes(count: number) {
 	}
 	const quotes = await db.select().from(quote).where(eq(quote.jobId, made.job.id));
 	return { ...made, installers, quotes };
+}
+
+/** The e-mails of one template queued to one account's address. */
+async function mailsTo(userId: string, template: string) {
+	return db
+		.select({ subject: emailOutbox.subject, text: emailOutbox.text })
+		.from(emailOutbox)
+		.innerJoin(user, eq(user.email, emailOutbox.toAddress))
+		.where(and(eq(user.id, userId), eq(emailOutbox.template, template)));
 }
 
 describe('booking a quote', () => {
@@ -78,6 +87,11 @@ describe('booking a quote', () => {
 				installers.some((i) => i.email === m.toAddress && i.id === chosen.installerId)
 			)
 		).toBe(true);
+		// The owner is told too: what is held, until when, and where the booking is.
+		const ownerMails = await mailsTo(ownerId, 'booking-started');
+		expect(ownerMails).toHaveLength(1);
+		expect(ownerMails[0]?.text).toContain(`/owner/bookings/${made!.id}`);
+		expect(ownerMails[0]?.text).toContain('Nothing has been charged yet');
 	});
 
 	it('refuses a time the installer did not offer and a stranger', async () => {
@@ -173,6 +187,11 @@ describe('holds and payment', () => {
 		expect(reopened?.status).toBe('collecting_quotes');
 		const [liveAgain] = await db.select().from(quote).where(eq(quote.id, qa.quoteId));
 		expect(liveAgain?.status).toBe('live');
+		// A's owner hears that the hold ran out and where to book again; B's owner does not.
+		const lapsedMails = await mailsTo(a.ownerId, 'booking-lapsed-owner');
+		expect(lapsedMails).toHaveLength(1);
+		expect(lapsedMails[0]?.text).toContain(`/owner/jobs/${a.job.id}/quotes`);
+		expect(await mailsTo(b.ownerId, 'booking-lapsed-owner')).toHaveLength(0);
 	});
 
 	it('the scheduled sweep lapses expired holds and leaves current ones', async () => {

@@ -1,6 +1,10 @@
 import { eq, inArray } from 'drizzle-orm';
-import { describe, expect, it } from 'vitest';
+import { PDFDocument } from 'pdf-lib';
+import sharp from 'sharp';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startS3Fake } from '../../local-fakes/s3';
 import { db } from '$lib/server/db';
+import { getObject } from '$lib/server/files/storage';
 import { minCoverCents } from '$lib/server/vetting';
 import { installerDocument, installerHours, installerProfile } from '$lib/server/db/schema';
 import {
@@ -18,6 +22,17 @@ const ALL_TICKED: Checklist = {
 	insuranceCurrent: true,
 	abnValidAndActive: true
 };
+
+let closeStore: () => Promise<void>;
+
+beforeAll(async () => {
+	// The seed stores the demo documents through the S3 API, as under npm start.
+	const fake = await startS3Fake({ host: '127.0.0.1', port: 0 });
+	closeStore = fake.close;
+	process.env.S3_ENDPOINT = fake.url;
+	process.env.S3_BUCKET = 'seed-test';
+});
+afterAll(() => closeStore());
 
 describe('the demo data obeys the vetting rules', () => {
 	it('every vetted installer has what sending and approving an application require', async () => {
@@ -79,6 +94,23 @@ describe('the demo data obeys the vetting rules', () => {
 					.where(eq(installerDocument.installerId, id))
 			).map((d) => d.kind);
 			expect(kinds, name).toEqual(expect.arrayContaining(['insurance', 'photo-id']));
+		}
+	});
+
+	it('every listed document is stored, with the size its row gives, and opens', async () => {
+		const documents = await db.select().from(installerDocument);
+		expect(documents.length).toBeGreaterThan(0);
+		for (const d of documents) {
+			const stored = await getObject(d.objectKey);
+			expect(stored, d.objectKey).not.toBeNull();
+			const bytes = new Uint8Array(await new Response(stored!.body).arrayBuffer());
+			expect(bytes.byteLength, d.objectKey).toBe(d.bytes);
+			if (d.contentType === 'application/pdf') {
+				const pdf = await PDFDocument.load(bytes);
+				expect(pdf.getTitle()).toContain('invented');
+			} else {
+				expect((await sharp(bytes).metadata()).format).toBe('jpeg');
+			}
 		}
 	});
 });

@@ -6,6 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
+import * as accountForms from '$lib/forms/account';
 import * as authForms from '$lib/forms/auth';
 import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as jobForms from '$lib/forms/job';
@@ -14,7 +15,15 @@ import * as vettingForms from '$lib/forms/vetting';
 import * as jobRequest from '$lib/scope/request';
 import * as quoteForms from '../../src/routes/(installer)/installer/jobs/[id=uuid]/quote-form';
 
-const MODULES = { authForms, jobForms, threadForms, vettingForms, jobRequest, quoteForms };
+const MODULES = {
+	accountForms,
+	authForms,
+	jobForms,
+	threadForms,
+	vettingForms,
+	jobRequest,
+	quoteForms
+};
 
 const schemas = Object.entries(MODULES).flatMap(([module, exports]) =>
 	Object.entries(exports)

@@ -118,6 +118,53 @@ export const placeStepSchema = z
 			'For a fit at your place, enter the street address (installers see it only once booked)'
 	});
 
+/** The longest note an owner leaves installers on a posted job. */
+export const MAX_OWNER_NOTE_LENGTH = 500;
+
+/**
+ * What an owner may still change once installers have quoted: the dates that suit them and a
+ * note to installers. The car, cameras, power and place are what the quotes priced, so they stay.
+ */
+export const adjustJobSchema = z
+	.object({
+		date1: isoDate,
+		window1: z.enum(windowKeys).default('morning'),
+		date2: isoDate,
+		window2: z.enum(windowKeys).default('morning'),
+		date3: isoDate,
+		window3: z.enum(windowKeys).default('morning'),
+		note: textField()
+			.trim()
+			.max(MAX_OWNER_NOTE_LENGTH, {
+				error: `Keep the note under ${String(MAX_OWNER_NOTE_LENGTH)} characters`
+			})
+			.default('')
+	})
+	.refine((v) => v.date1 || v.date2 || v.date3, {
+		path: ['date1'],
+		message: 'Choose at least one date that suits you'
+	});
+
+/** The chosen dates of a dates form, in order, without the empty rows. */
+export function chosenWindows(d: {
+	date1?: string;
+	window1: TimeWindow;
+	date2?: string;
+	window2: TimeWindow;
+	date3?: string;
+	window3: TimeWindow;
+}): Array<{ date: string; window: TimeWindow }> {
+	return (
+		[
+			[d.date1, d.window1],
+			[d.date2, d.window2],
+			[d.date3, d.window3]
+		] as const
+	)
+		.filter((w): w is readonly [string, TimeWindow] => Boolean(w[0]))
+		.map(([date, window]) => ({ date, window }));
+}
+
 export const withdrawSchema = z.object({
 	reason: textField({ error: 'Tell installers why, in a few words' })
 		.trim()

@@ -19,7 +19,8 @@ import {
 	recordSuccessfulSignIn
 } from './rate-limit';
 
-const VERIFY_TTL_MS = 48 * 3600_000;
+/** How long a confirmation link works (also for a new address). */
+export const VERIFY_TTL_MS = 48 * 3600_000;
 const RESET_TTL_MS = 3600_000;
 
 const emailTaken = () =>
@@ -34,7 +35,7 @@ const emailTaken = () =>
 		}
 	);
 
-type TokenPurpose = 'verify-email' | 'reset-password';
+type TokenPurpose = 'verify-email' | 'reset-password' | 'change-email';
 
 /** Account fields safe to hand to callers (never the password hash). */
 export type AccountSummary = Pick<User, 'id' | 'email' | 'role' | 'displayName'>;
@@ -45,7 +46,7 @@ export const normaliseEmail = (email: string) => email.trim().toLowerCase();
 const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
 /** Ends every unused link of this purpose for the account: only the newest one ever works. */
-async function endUnusedTokens(tx: Tx, userId: string, purpose: TokenPurpose) {
+export async function endUnusedTokens(tx: Tx, userId: string, purpose: TokenPurpose) {
 	await tx
 		.update(emailToken)
 		.set({ usedAt: new Date() })
@@ -54,19 +55,38 @@ async function endUnusedTokens(tx: Tx, userId: string, purpose: TokenPurpose) {
 		);
 }
 
-async function issueToken(tx: Tx, userId: string, purpose: TokenPurpose, ttlMs: number) {
+/**
+ * Issues a one-time link token (only its SHA-256 is stored), ending the account's earlier unused
+ * ones of the same purpose.
+ * @param newEmail for 'change-email': the address the account moves to when the link is used
+ */
+export async function issueToken(
+	tx: Tx,
+	userId: string,
+	purpose: TokenPurpose,
+	ttlMs: number,
+	newEmail: string | null = null
+) {
 	await endUnusedTokens(tx, userId, purpose);
 	const token = randomBytes(32).toString('base64url');
 	await tx.insert(emailToken).values({
 		tokenHash: hashToken(token),
 		userId,
 		purpose,
+		newEmail,
 		expiresAt: new Date(Date.now() + ttlMs)
 	});
 	return token;
 }
 
-async function takeToken(tx: Tx, token: string, purpose: TokenPurpose) {
+/** Uses up a token that is unused and not expired; returns its account and new address. */
+export async function takeToken(tx: Tx, token: string, purpose: TokenPurpose) {
+	const row = await takeTokenRow(tx, token, purpose);
+	return row?.userId ?? null;
+}
+
+/** As {@link takeToken}, with the token's new address (for 'change-email'). */
+export async function takeTokenRow(tx: Tx, token: string, purpose: TokenPurpose) {
 	const [row] = await tx
 		.update(emailToken)
 		.set({ usedAt: new Date() })
@@ -78,8 +98,8 @@ async function takeToken(tx: Tx, token: string, purpose: TokenPurpose) {
 				gt(emailToken.expiresAt, new Date())
 			)
 		)
-		.returning({ userId: emailToken.userId });
-	return row?.userId ?? null;
+		.returning({ userId: emailToken.userId, newEmail: emailToken.newEmail });
+	return row ?? null;
 }
 
 export interface NewAccount {
@@ -189,9 +209,28 @@ export async function signIn(
 	}
 	const account = await authenticate(email, password);
 	if (!account) return refuse(400, SIGN_IN_MISMATCH);
+	// Only someone who knows the password learns the account is suspended.
+	const [standing] = await db
+		.select({ suspendedAt: user.suspendedAt })
+		.from(user)
+		.where(eq(user.id, account.id));
+	if (standing?.suspendedAt) return refuse(403, SUSPENDED_SIGN_IN);
 	await recordSuccessfulSignIn(email, address);
 	return { ok: true, account };
 }
+
+/**
+ * Ends every earlier reset link of the account and issues a fresh one, inside the caller's
+ * transaction (an admin's forced reset); returns the link to e-mail.
+ */
+export async function issueResetLink(tx: Tx, userId: string): Promise<string> {
+	const token = await issueToken(tx, userId, 'reset-password', RESET_TTL_MS);
+	return appUrl(`/reset-password?token=${token}`);
+}
+
+/** What a suspended account is told when it tries to sign in. */
+export const SUSPENDED_SIGN_IN =
+	'This account is suspended, so it cannot sign in. The e-mail we sent says why; reply to it to talk it through with us.';
 
 /**
  * Marks the address of the token's account verified.
@@ -325,6 +364,6 @@ export async function listAdmins(): Promise<AccountSummary[]> {
 	return db
 		.select({ id: user.id, email: user.email, role: user.role, displayName: user.displayName })
 		.from(user)
-		.where(eq(user.role, 'admin'))
+		.where(and(eq(user.role, 'admin'), isNull(user.deletedAt)))
 		.orderBy(user.createdAt);
 }

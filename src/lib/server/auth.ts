@@ -2,12 +2,14 @@
  * Sessions, behind one small API. Lucia v3 is no longer developed upstream; nothing outside this
  * file imports it, so replacing it later touches only this module.
  */
+import { createHash } from 'node:crypto';
 import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
 import type { Cookies } from '@sveltejs/kit';
+import { and, asc, eq, gt, ne } from 'drizzle-orm';
 import { Lucia } from 'lucia';
 import { dev } from '$app/environment';
 import { env } from '$env/dynamic/private';
-import { db } from './db';
+import { db, type Tx } from './db';
 import { session, user, type Role } from './db/schema';
 
 const adapter = new DrizzlePostgreSQLAdapter(db, session, user);
@@ -25,7 +27,8 @@ const lucia = new Lucia(adapter, {
 		email: attributes.email,
 		role: attributes.role,
 		displayName: attributes.displayName,
-		emailVerified: attributes.emailVerifiedAt !== null
+		emailVerified: attributes.emailVerifiedAt !== null,
+		suspended: attributes.suspendedAt !== null
 	})
 });
 
@@ -37,6 +40,7 @@ declare module 'lucia' {
 			role: Role;
 			displayName: string;
 			emailVerifiedAt: Date | null;
+			suspendedAt: Date | null;
 		};
 	}
 }
@@ -88,7 +92,11 @@ export async function readSession(
 		const cookie = lucia.createSessionCookie(result.session.id);
 		cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
 	}
-	if (!result.session || !result.user) {
+	if (result.session && result.user?.suspended) {
+		// A suspension ends every session; one started since (by a confirmation link) ends here.
+		await lucia.invalidateSession(result.session.id);
+	}
+	if (!result.session || !result.user || result.user.suspended) {
 		const blank = lucia.createBlankSessionCookie();
 		cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
 		return { user: null, session: null };
@@ -111,7 +119,94 @@ export async function endSession(cookies: Cookies, sessionId: string): Promise<v
 	cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
 }
 
+/**
+ * Ends every session of a user inside the caller's transaction, so a suspension or forced reset
+ * and the sign-out commit together.
+ */
+export async function endAllSessionsIn(tx: Tx, userId: string): Promise<void> {
+	await tx.delete(session).where(eq(session.userId, userId));
+}
+
 /** Ends every session of a user, e.g. after a password reset. */
 export async function endAllSessions(userId: string): Promise<void> {
 	await lucia.invalidateUserSessions(userId);
+}
+
+/**
+ * A session's id is its cookie's value, so pages never see it: they name a session by this
+ * handle (SHA-256 of the id, shortened), which cannot be turned back into a cookie.
+ */
+export const sessionHandle = (sessionId: string) =>
+	createHash('sha256').update(sessionId).digest('hex').slice(0, 32);
+
+/** One of a user's sessions as the account page lists it. */
+export interface SessionListing {
+	handle: string;
+	createdAt: Date;
+	expiresAt: Date;
+	current: boolean;
+}
+
+/** A user's sessions that have not run out, oldest first, marking the one making the request. */
+export async function listSessions(
+	userId: string,
+	currentSessionId: string
+): Promise<SessionListing[]> {
+	const rows = await db
+		.select({ id: session.id, createdAt: session.createdAt, expiresAt: session.expiresAt })
+		.from(session)
+		.where(and(eq(session.userId, userId), gt(session.expiresAt, new Date())))
+		.orderBy(asc(session.createdAt), asc(session.id));
+	return rows.map((row) => ({
+		handle: sessionHandle(row.id),
+		createdAt: row.createdAt,
+		expiresAt: row.expiresAt,
+		current: row.id === currentSessionId
+	}));
+}
+
+/**
+ * Ends one of the user's sessions, named by its handle; never the current one (that is signing
+ * out) and never another user's.
+ * @returns 'ended', 'current' when the handle names the session making the request, or 'unknown'
+ */
+export async function endSessionByHandle(
+	userId: string,
+	handle: string,
+	currentSessionId: string
+): Promise<'ended' | 'current' | 'unknown'> {
+	const rows = await db.select({ id: session.id }).from(session).where(eq(session.userId, userId));
+	const found = rows.find((row) => sessionHandle(row.id) === handle);
+	if (!found) return 'unknown';
+	if (found.id === currentSessionId) return 'current';
+	await lucia.invalidateSession(found.id);
+	return 'ended';
+}
+
+/**
+ * Ends every session of the user except `keepSessionId` (all of them when null), inside the
+ * caller's transaction when given one, so a password change and the sign-outs it causes commit
+ * together.
+ * @returns how many sessions ended
+ */
+export async function endSessionsExcept(
+	userId: string,
+	keepSessionId: string | null,
+	tx: Tx | typeof db = db
+): Promise<number> {
+	const ended = await tx
+		.delete(session)
+		.where(
+			keepSessionId
+				? and(eq(session.userId, userId), ne(session.id, keepSessionId))
+				: eq(session.userId, userId)
+		)
+		.returning({ id: session.id });
+	return ended.length;
+}
+
+/** Clears the session cookie of this browser (after its session was ended some other way). */
+export function clearSessionCookie(cookies: Cookies): void {
+	const blank = lucia.createBlankSessionCookie();
+	cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
 }

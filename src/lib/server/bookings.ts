@@ -8,7 +8,7 @@
  */
 import { and, eq, gt, inArray, lte, ne, or, type SQL } from 'drizzle-orm';
 import { formatSlotLabel } from '$lib/schedule';
-import { formatInZone } from '$lib/time';
+import { formatDayTime } from '$lib/time';
 import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, quote, user } from './db/schema';
@@ -167,11 +167,28 @@ export async function bookQuote(
 				data: {
 					businessName: chosen.businessName,
 					title,
-					slot: formatSlotLabel(slot, chosen.timeZone),
-					holdUntil: formatInZone(holdExpiresAt, chosen.timeZone, 'h:mm a, EEE d MMM'),
+					slot: formatSlotLabel(slot, chosen.timeZone, now),
+					holdUntil: formatDayTime(holdExpiresAt, chosen.timeZone, now),
 					url: appUrl(`/installer/jobs/${jobId}`)
 				}
 			});
+			const [ownerPerson] = await tx
+				.select({ email: user.email, displayName: user.displayName })
+				.from(user)
+				.where(eq(user.id, ownerId));
+			if (ownerPerson) {
+				await mail.send(ownerPerson.email, {
+					template: 'booking-started',
+					data: {
+						displayName: ownerPerson.displayName,
+						businessName: chosen.businessName,
+						title,
+						slot: formatSlotLabel(slot, locked.timeZone, now),
+						holdUntil: formatDayTime(holdExpiresAt, locked.timeZone, now),
+						url: appUrl(`/owner/bookings/${made.id}`)
+					}
+				});
+			}
 			return { ok: true, bookingId: made.id };
 		});
 	} catch (err) {
@@ -197,7 +214,7 @@ export async function bookQuote(
  * 'lapsed' (which frees the slot: the exclusion constraint only counts live bookings), the job
  * collects quotes again and the accepted quote is live again. Quotes declined at booking stay
  * declined; those installers may send a fresh revision.
- * E-mails each installer whose slot was freed.
+ * E-mails each installer whose slot was freed, and the owner whose hold ran out.
  * @returns how many bookings lapsed
  */
 export async function lapseHolds(
@@ -214,6 +231,7 @@ export async function lapseHolds(
 			jobId: booking.jobId,
 			quoteId: booking.quoteId,
 			installerId: booking.installerId,
+			ownerId: booking.ownerId,
 			slotStart: booking.slotStart,
 			slotEnd: booking.slotEnd
 		});
@@ -222,7 +240,7 @@ export async function lapseHolds(
 			.update(job)
 			.set({ status: 'collecting_quotes', updatedAt: now })
 			.where(and(eq(job.id, b.jobId), eq(job.status, 'booked')))
-			.returning({ title: job.title });
+			.returning({ title: job.title, timeZone: job.timeZone });
 		await tx
 			.update(quote)
 			.set({ status: 'live', updatedAt: now })
@@ -236,16 +254,31 @@ export async function lapseHolds(
 			.from(installerProfile)
 			.innerJoin(user, eq(user.id, installerProfile.userId))
 			.where(eq(installerProfile.userId, b.installerId));
+		const slot = { start: b.slotStart, end: b.slotEnd };
 		if (person) {
 			await mail.send(person.email, {
 				template: 'booking-lapsed',
 				data: {
 					businessName: person.businessName,
 					title: titleOrUntitled(j?.title),
-					slot: formatSlotLabel(
-						{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
-						person.timeZone
-					)
+					slot: formatSlotLabel(slot, person.timeZone, now)
+				}
+			});
+		}
+		const [ownerPerson] = await tx
+			.select({ email: user.email, displayName: user.displayName, timeZone: job.timeZone })
+			.from(user)
+			.innerJoin(job, eq(job.id, b.jobId))
+			.where(eq(user.id, b.ownerId));
+		if (ownerPerson && person) {
+			await mail.send(ownerPerson.email, {
+				template: 'booking-lapsed-owner',
+				data: {
+					displayName: ownerPerson.displayName,
+					businessName: person.businessName,
+					title: titleOrUntitled(j?.title),
+					slot: formatSlotLabel(slot, ownerPerson.timeZone, now),
+					url: appUrl(`/owner/jobs/${b.jobId}/quotes`)
 				}
 			});
 		}

@@ -1,8 +1,10 @@
 /** Installers' diaries: weekly hours, days off, and the bookings that take their time. */
-import { and, asc, eq, gt, or } from 'drizzle-orm';
+import { and, asc, eq, gt, lt, or } from 'drizzle-orm';
 import type { Weekday, WeeklyHours } from '$lib/schedule';
+import { formatDay, formatInZone, localToUtc } from '$lib/time';
 import { db, type Tx } from './db';
 import { booking, installerBlockedDate, installerHours } from './db/schema';
+import { refuse, type Refusal } from './refusal';
 
 /** Minutes after midnight as 'hh:mm'. */
 const toHhMm = (minute: number) =>
@@ -52,8 +54,46 @@ export async function listBlockedDates(installerId: string) {
 		.orderBy(asc(installerBlockedDate.day));
 }
 
-/** Blocks a local date (a second block of the same date just updates its note). */
-export async function blockDate(installerId: string, day: string, note: string | null) {
+/** The day after a calendar date 'YYYY-MM-DD'. */
+const nextDay = (day: string) =>
+	new Date(Date.parse(`${day}T00:00:00Z`) + 86_400_000).toISOString().slice(0, 10);
+
+/**
+ * Blocks a local date (a second block of the same date just updates its note). A date with a
+ * fit booked on it (confirmed, or provisional with its hold running at `now`) is refused: a day
+ * off would not move the fit, only hide that the installer is expected there.
+ * @param zone the installer's zone, which says where the date starts and ends
+ */
+export async function blockDate(
+	installerId: string,
+	day: string,
+	note: string | null,
+	zone: string,
+	now = new Date()
+): Promise<{ ok: true } | Refusal> {
+	const [booked] = await db
+		.select({ start: booking.slotStart })
+		.from(booking)
+		.where(
+			and(
+				eq(booking.installerId, installerId),
+				lt(booking.slotStart, localToUtc(nextDay(day), '00:00', zone)),
+				gt(booking.slotEnd, localToUtc(day, '00:00', zone)),
+				or(
+					eq(booking.status, 'confirmed'),
+					and(eq(booking.status, 'awaiting_payment'), gt(booking.holdExpiresAt, now))
+				)
+			)
+		)
+		.orderBy(asc(booking.slotStart))
+		.limit(1);
+	if (booked) {
+		return refuse(
+			409,
+			`You have a fit booked on ${formatDay(day)} at ${formatInZone(booked.start, zone, 'h:mm a').toLowerCase()}. Keep the day open, or ask the owner about another time in the job's messages first.`,
+			{ fields: { day: 'A fit is booked on this day.' } }
+		);
+	}
 	await db
 		.insert(installerBlockedDate)
 		.values({ installerId, day, note })
@@ -61,6 +101,7 @@ export async function blockDate(installerId: string, day: string, note: string |
 			target: [installerBlockedDate.installerId, installerBlockedDate.day],
 			set: { note }
 		});
+	return { ok: true };
 }
 
 /** Unblocks a local date. */

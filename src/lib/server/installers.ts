@@ -13,7 +13,13 @@ import {
 } from '$lib/vetting';
 import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
-import { installerHours, installerProfile, vettingEvent, type InstallerProfile } from './db/schema';
+import {
+	installerHours,
+	installerProfile,
+	user,
+	vettingEvent,
+	type InstallerProfile
+} from './db/schema';
 import { documentKinds, listInstallerDocuments } from './documents';
 import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
@@ -384,7 +390,9 @@ export async function getPublicProfile(installerId: string, viewer: DocumentView
 			pausedReason: installerProfile.pausedReason
 		})
 		.from(installerProfile)
-		.where(eq(installerProfile.userId, installerId));
+		.innerJoin(user, eq(user.id, installerProfile.userId))
+		// A closed account has no public profile.
+		.where(and(eq(installerProfile.userId, installerId), isNull(user.deletedAt)));
 	if (!row) return null;
 	const mayPreview = viewer?.role === 'admin' || viewer?.id === installerId;
 	if (!isProfilePublic(row.vettingStatus) && !mayPreview) return null;

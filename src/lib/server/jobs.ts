@@ -5,6 +5,7 @@
  */
 import { and, asc, count, desc, eq, sql, type SQL } from 'drizzle-orm';
 import { formatInZone } from '$lib/time';
+import { preferredWindowText } from '$lib/labels';
 import { jobRequestSchema } from '$lib/scope';
 import {
 	preferredDateProblem,
@@ -14,9 +15,11 @@ import {
 } from '$lib/forms/job';
 import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
-import { job, jobPhoto, quote, type Job } from './db/schema';
+import { installerProfile, job, jobPhoto, quote, user, type Job } from './db/schema';
+import { appUrl } from './mail/app-url';
+import { withMail } from './mail/outbox';
 import { isRefusal, NOT_YOUR_JOB, refuse, type Refusal } from './refusal';
-import { jobTitle, postedJobColumns } from '$lib/posted-job';
+import { jobTitle, postedJobColumns, titleOrUntitled } from '$lib/posted-job';
 
 /** Statuses in which an owner may still change the request (and only while no quote is in). */
 const EDITABLE = new Set<Job['status']>(['drafting', 'collecting_quotes']);
@@ -186,6 +189,84 @@ export function draftProblems(draft: Job, now = new Date()): PostProblem[] {
 			problems.push({ step: 'place', message: `Preferred dates: ${dateProblem.toLowerCase()}` });
 	}
 	return problems;
+}
+
+/** What an owner may change on a job that installers have quoted on. */
+export interface JobAdjustment {
+	windows: PlaceAnswers['windows'];
+	/** The note to installers; empty removes it. */
+	note: string;
+}
+
+/** An adjustment that went through, and how many quoting installers were told. */
+export type JobAdjusted = { ok: true; told: number } | Refusal;
+
+/**
+ * Changes the dates that suit the owner and the note to installers on a job taking quotes, and
+ * e-mails every installer with a live quote what changed, in the same transaction. The car,
+ * cameras, power and place stay: they are what the quotes priced. Quotes stay as sent; an
+ * installer whose times no longer suit can revise theirs.
+ */
+export async function adjustOpenJob(
+	jobId: string,
+	ownerId: string,
+	change: JobAdjustment,
+	now = new Date()
+): Promise<JobAdjusted> {
+	return withMail(async (tx, mail) => {
+		const [row] = await tx
+			.select()
+			.from(job)
+			.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)))
+			.for('update');
+		if (!row) return refuse(404, NOT_YOUR_JOB);
+		if (row.status !== 'collecting_quotes') {
+			return refuse(
+				409,
+				'Dates and the note can change only while the job takes quotes; this one does not any more.'
+			);
+		}
+		const dateProblem = checkPreferredDates(change.windows, row.timeZone, now);
+		if (dateProblem) return refuse(400, dateProblem, { fields: { date1: dateProblem } });
+		const note = change.note.trim() === '' ? null : change.note.trim();
+		const sameDates = JSON.stringify(row.preferredWindows) === JSON.stringify(change.windows);
+		if (sameDates && note === row.ownerNote) return { ok: true, told: 0 };
+		const draftDates = Object.fromEntries(
+			[0, 1, 2].flatMap((i) => [
+				[`date${String(i + 1)}`, change.windows[i]?.date ?? ''],
+				[`window${String(i + 1)}`, change.windows[i]?.window ?? 'morning']
+			])
+		);
+		await tx
+			.update(job)
+			.set({
+				preferredWindows: change.windows,
+				ownerNote: note,
+				draft: { ...row.draft, ...draftDates },
+				updatedAt: now
+			})
+			.where(eq(job.id, jobId));
+		const quoting = await tx
+			.select({ email: user.email, businessName: installerProfile.businessName })
+			.from(quote)
+			.innerJoin(installerProfile, eq(installerProfile.userId, quote.installerId))
+			.innerJoin(user, eq(user.id, quote.installerId))
+			.where(and(eq(quote.jobId, jobId), eq(quote.status, 'live')));
+		const title = titleOrUntitled(row.title);
+		for (const person of quoting) {
+			await mail.send(person.email, {
+				template: 'job-adjusted',
+				data: {
+					businessName: person.businessName,
+					title,
+					dates: sameDates ? null : change.windows.map((w) => preferredWindowText(w, now)),
+					noteChanged: note !== row.ownerNote,
+					url: appUrl(`/installer/jobs/${jobId}`)
+				}
+			});
+		}
+		return { ok: true, told: quoting.length };
+	});
 }
 
 /** Withdraws a job that is not booked, with the owner's reason. */

@@ -9,6 +9,7 @@
  * matchProblem in $lib/matching, and tests/integration/board.test.ts holds the two equal.
  * Installers only ever get a job's grid-cell centre until it is booked with them.
  */
+import { maskContactDetails } from '$lib/masking';
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import { shownKm, type BoundingBox, type LatLng } from '$lib/geo';
 import {
@@ -323,6 +324,13 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 		approx,
 		locationMode: j.locationMode,
 		preferredWindows: j.preferredWindows,
+		// The owner's note passes unmasked only once a booking with this installer is paid for.
+		ownerNote:
+			j.ownerNote === null
+				? null
+				: mine?.status === 'confirmed'
+					? j.ownerNote
+					: maskContactDetails(j.ownerNote).text,
 		scope: j.scope,
 		request: j.request,
 		timeZone: j.timeZone,

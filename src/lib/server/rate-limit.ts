@@ -127,3 +127,25 @@ export async function clearSignInLimits(email: string): Promise<void> {
 			sql`${rateLimit.key} = ${`signin-account:${key}`} or starts_with(${rateLimit.key}, ${`signin-pair:${key}|`})`
 		);
 }
+
+/**
+ * Current-password checks on the account page (changing e-mail or password, closing the account)
+ * per account in the window (Tapline's choice): a stolen session cannot be used to guess the
+ * password, and a person who mistypes a few times is not held up.
+ */
+export const ACCOUNT_PASSWORD_CHECKS = 10;
+const accountPasswordChecks = limiter('account-password', ACCOUNT_PASSWORD_CHECKS, WINDOW_SECONDS);
+
+/** Takes one current-password check from the account's allowance, before the password is checked. */
+export function consumeAccountPasswordCheck(userId: string): Promise<ThrottleResult> {
+	return consumeAll([[accountPasswordChecks, userId]]);
+}
+
+/** Address changes asked for per account in a day (Tapline's choice): each one sends e-mail. */
+export const EMAIL_CHANGE_REQUESTS = 5;
+const emailChangeRequests = limiter('email-change', EMAIL_CHANGE_REQUESTS, 24 * 3600);
+
+/** Takes one address-change request from the account's allowance. */
+export function consumeEmailChangeRequest(userId: string): Promise<ThrottleResult> {
+	return consumeAll([[emailChangeRequests, userId]]);
+}

@@ -12,7 +12,7 @@ import { booking, installerProfile, job, jobMessage, quote, user } from './db/sc
 import { threadMessageSchema } from '$lib/forms/thread';
 import { appUrl } from './mail/app-url';
 import { withMail } from './mail/outbox';
-import { refuse, type Refusal } from './refusal';
+import { NOT_YOUR_JOB, refuse, type Refusal } from './refusal';
 import { jobReach } from './matching';
 import { titleOrUntitled } from '$lib/posted-job';
 
@@ -80,6 +80,10 @@ async function threadAccess(tx: Tx | typeof db, jobId: string, installerId: stri
 	};
 }
 
+/** Why an owner cannot write to an installer who neither quoted on the job nor asked about it. */
+export const OWNER_MAY_NOT_MESSAGE =
+	'You can message the installers who have quoted on this job. This installer has not quoted or asked about it.';
+
 export type MessageOutcome = { ok: true; masked: MaskedKind[] } | Refusal;
 
 /**
@@ -115,14 +119,13 @@ export async function postJobMessage(
 					: 'This job is no longer open to you.'
 			);
 		}
-		if (isOwner && !access.hasQuote) {
-			const [asked] = await tx
-				.select({ id: jobMessage.id })
-				.from(jobMessage)
-				.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
-				.limit(1);
-			if (!asked) return refuse(404, 'This installer has not quoted or asked anything.');
-		}
+		const [earlier] = await tx
+			.select({ id: jobMessage.id })
+			.from(jobMessage)
+			.where(and(eq(jobMessage.jobId, jobId), eq(jobMessage.installerId, installerId)))
+			.limit(1);
+		// An owner may start a thread with any installer who quoted, and answer one who asked.
+		if (isOwner && !access.hasQuote && !earlier) return refuse(403, OWNER_MAY_NOT_MESSAGE);
 		const masked = access.booked ? { text, masked: [] as MaskedKind[] } : maskContactDetails(text);
 		await tx.insert(jobMessage).values({
 			jobId,
@@ -136,7 +139,9 @@ export async function postJobMessage(
 			? mail.send(access.installerEmail, {
 					template: 'job-message',
 					data: {
-						heading: `The owner of the ${title} replied`,
+						heading: earlier
+							? `The owner of the ${title} replied`
+							: `The owner of the ${title} wrote to you`,
 						body: masked.text,
 						url: appUrl(`/installer/jobs/${jobId}#questions`)
 					}
@@ -151,6 +156,41 @@ export async function postJobMessage(
 				}));
 		return { ok: true, masked: masked.masked };
 	});
+}
+
+/**
+ * The thread an owner has with one installer about their job, oldest first, for the owner's
+ * "Message" action: a 404 when the job is not the owner's or there is no such installer, a 403
+ * when the installer neither quoted on the job nor wrote about it (only they may be messaged).
+ */
+export async function getOwnerThread(
+	jobId: string,
+	ownerId: string,
+	installerId: string
+): Promise<
+	| {
+			ok: true;
+			businessName: string;
+			quoted: boolean;
+			messages: Awaited<ReturnType<typeof listJobMessages>>;
+	  }
+	| Refusal
+> {
+	const [owned] = await db
+		.select({ id: job.id })
+		.from(job)
+		.where(and(eq(job.id, jobId), eq(job.ownerId, ownerId)));
+	if (!owned) return refuse(404, NOT_YOUR_JOB);
+	const [installer] = await db
+		.select({ businessName: installerProfile.businessName, quoteId: quote.id })
+		.from(installerProfile)
+		.leftJoin(quote, and(eq(quote.installerId, installerProfile.userId), eq(quote.jobId, jobId)))
+		.where(eq(installerProfile.userId, installerId));
+	if (!installer) return refuse(404, 'There is no such installer.');
+	const messages = await listJobMessages(jobId, installerId);
+	const quoted = installer.quoteId !== null;
+	if (!quoted && messages.length === 0) return refuse(403, OWNER_MAY_NOT_MESSAGE);
+	return { ok: true, businessName: installer.businessName, quoted, messages };
 }
 
 /** The thread between a job's owner and one installer, oldest first. */

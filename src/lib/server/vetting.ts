@@ -3,7 +3,19 @@
  * and the daily insurance-expiry check. Every decision locks the installer's profile row, checks
  * the standing the admin saw, writes the audit event and queues the e-mail in one transaction.
  */
-import { and, asc, count, desc, eq, inArray, isNotNull, sql, type SQL } from 'drizzle-orm';
+import {
+	and,
+	asc,
+	count,
+	desc,
+	eq,
+	inArray,
+	isNotNull,
+	isNull,
+	notInArray,
+	sql,
+	type SQL
+} from 'drizzle-orm';
 import { env } from '$env/dynamic/private';
 import { isValidAbn } from '$lib/abn';
 import {
@@ -56,7 +68,12 @@ export type VettingOutcome = { ok: true } | Refusal;
 
 export async function lockProfile(tx: Tx, installerId: string) {
 	const [row] = await tx
-		.select({ profile: installerProfile, email: user.email, displayName: user.displayName })
+		.select({
+			profile: installerProfile,
+			email: user.email,
+			displayName: user.displayName,
+			closedAt: user.deletedAt
+		})
 		.from(installerProfile)
 		.innerJoin(user, eq(user.id, installerProfile.userId))
 		.where(eq(installerProfile.userId, installerId))
@@ -77,7 +94,7 @@ export async function recordEvent(
 	event: {
 		installerId: string;
 		actorId: string | null;
-		action: VettingAction | 'insurance-updated' | 'service-area-moved';
+		action: VettingAction | 'insurance-updated' | 'service-area-moved' | 'account-closed';
 		fromStatus: VettingStatus | null;
 		toStatus: VettingStatus | null;
 		reason?: string | null;
@@ -142,6 +159,9 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
 		if (admin?.role !== 'admin') return refuse(409, 'Only an admin can decide applications.');
 		const row = await lockProfile(tx, input.installerId);
 		if (!row) return refuse(404, 'There is no such application.');
+		if (row.closedAt) {
+			return refuse(409, 'This installer closed their account; their record stays as it is.');
+		}
 		const { profile } = row;
 		const stage = stageOf(profile);
 		const paused = profile.pausedReason !== null;
@@ -200,10 +220,10 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
 }
 
 /**
- * Withdraws a suspended installer's open quotes and tells each owner, in the suspension's
+ * Withdraws a suspended (or departing) installer's open quotes and tells each owner, in the caller's
  * transaction (the profile row is locked, so no quote or booking of theirs slips in between).
  */
-async function withdrawLiveQuotes(tx: Tx, mail: Mail, profile: InstallerProfile) {
+export async function withdrawLiveQuotes(tx: Tx, mail: Mail, profile: InstallerProfile) {
 	const withdrawn = await tx
 		.update(quote)
 		.set({ status: 'withdrawn', updatedAt: new Date() })
@@ -215,9 +235,12 @@ async function withdrawLiveQuotes(tx: Tx, mail: Mail, profile: InstallerProfile)
 		.from(job)
 		.innerJoin(user, eq(user.id, job.ownerId))
 		.where(
-			inArray(
-				job.id,
-				withdrawn.map((w) => w.jobId)
+			and(
+				inArray(
+					job.id,
+					withdrawn.map((w) => w.jobId)
+				),
+				isNull(user.deletedAt)
 			)
 		);
 	for (const owner of owners) {
@@ -243,7 +266,12 @@ export async function listVettingQueue(query: {
 }) {
 	const where = and(
 		isNotNull(installerProfile.submittedAt),
-		query.status ? eq(installerProfile.vettingStatus, query.status) : undefined
+		query.status ? eq(installerProfile.vettingStatus, query.status) : undefined,
+		// A closed account's application waits for nobody; its record stays on its own page.
+		notInArray(
+			installerProfile.userId,
+			db.select({ id: user.id }).from(user).where(isNotNull(user.deletedAt))
+		)
 	);
 	const order: SQL[] = {
 		oldest: [asc(installerProfile.submittedAt)],
@@ -345,7 +373,7 @@ export async function runInsuranceExpiryCheck(now: Date = new Date()) {
 		await withMail(async (tx, mail) => {
 			const row = await lockProfile(tx, id);
 			const expiresOn = row?.profile.insuranceExpiresOn;
-			if (!row || !expiresOn || row.profile.vettingStatus !== 'approved') return;
+			if (!row || row.closedAt || !expiresOn || row.profile.vettingStatus !== 'approved') return;
 			const sent = await tx
 				.select({ daysBefore: insuranceReminder.daysBefore })
 				.from(insuranceReminder)

@@ -42,6 +42,15 @@ export const user = pgTable('user', {
 	role: userRole('role').notNull(),
 	displayName: text('display_name').notNull(),
 	emailVerifiedAt: timestamp('email_verified_at', { withTimezone: true }),
+	/**
+	 * When the holder closed the account. The row stays (bookings, quotes, messages and the
+	 * append-only vetting trail point at it) with its personal fields overwritten; see
+	 * account-closing.ts.
+	 */
+	deletedAt: timestamp('deleted_at', { withTimezone: true }),
+	/** Set by an admin: a suspended account cannot sign in, and its sessions were ended. */
+	suspendedAt: timestamp('suspended_at', { withTimezone: true }),
+	suspendedReason: text('suspended_reason'),
 	createdAt: createdAt()
 });
 
@@ -52,7 +61,9 @@ export const session = pgTable(
 		userId: text('user_id')
 			.notNull()
 			.references(() => user.id, { onDelete: 'cascade' }),
-		expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull()
+		expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+		/** Filled by the database (Lucia writes only id, user and expiry); shown on the account page. */
+		createdAt: createdAt()
 	},
 	(t) => [index('session_user_idx').on(t.userId)]
 );
@@ -65,7 +76,11 @@ export const emailToken = pgTable(
 		userId: text('user_id')
 			.notNull()
 			.references(() => user.id, { onDelete: 'cascade' }),
-		purpose: text('purpose', { enum: ['verify-email', 'reset-password'] }).notNull(),
+		purpose: text('purpose', {
+			enum: ['verify-email', 'reset-password', 'change-email']
+		}).notNull(),
+		/** For 'change-email': the address that becomes the account's once this link is used. */
+		newEmail: text('new_email'),
 		expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
 		usedAt: timestamp('used_at', { withTimezone: true }),
 		createdAt: createdAt()
@@ -159,6 +174,31 @@ export const installerDocument = pgTable(
 );
 
 /**
+ * Every admin action on an account (suspend, reinstate, force a password reset): who, when, what,
+ * and the account's standing before and after. Append-only: a trigger (migration 0006) refuses
+ * UPDATE, DELETE and TRUNCATE, as for vetting_event.
+ */
+export const adminAudit = pgTable(
+	'admin_audit',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		actorId: text('actor_id')
+			.notNull()
+			.references(() => user.id),
+		action: text('action').notNull(),
+		targetUserId: text('target_user_id').references(() => user.id),
+		before: jsonb('before').$type<Record<string, unknown>>(),
+		after: jsonb('after').$type<Record<string, unknown>>(),
+		reason: text('reason'),
+		createdAt: createdAt()
+	},
+	(t) => [
+		index('admin_audit_target_idx').on(t.targetUserId, t.createdAt),
+		index('admin_audit_created_idx').on(t.createdAt)
+	]
+);
+
+/**
  * Every vetting decision, append-only: a database trigger (migration 0001) refuses UPDATE and
  * DELETE on this table, so the trail cannot be edited, even by the app.
  */
@@ -232,7 +272,7 @@ export const jobStatus = pgEnum('job_status', [
 ]);
 
 /**
- * Besides the columns below, migration 0006 (hand-written: drizzle-kit cannot spell a PostGIS type)
+ * Besides the columns below, migration 0011 (hand-written: drizzle-kit cannot spell a PostGIS type)
  * adds generated `geography(Point, 4326)` columns with GiST indexes: `job.location` (the true
  * point; never in an answer to an installer before booking), `job.approx_location` (the cell
  * centre, what matching, distance and the map use) and `installer_profile.base`. They are read
@@ -263,7 +303,7 @@ export const job = pgTable(
 		longitude: doublePrecision('longitude'),
 		/**
 		 * The centre of the job's 1 km privacy cell (snapToGrid in $lib/geo, mirrored by the SQL
-		 * functions of migration 0004): what installers are offered by, shown and measured to.
+		 * functions of migration 0009): what installers are offered by, shown and measured to.
 		 */
 		cellLatitude: doublePrecision('cell_latitude').generatedAlwaysAs(
 			sql`tapline_cell_lat(latitude)`
@@ -275,7 +315,7 @@ export const job = pgTable(
 		requiredSkills: text('required_skills').array(),
 		/** The board's one-line scope summary, written at posting (the board never reads `scope`). */
 		scopeSummary: text('scope_summary'),
-		/** Live quotes, kept by a trigger on quote (migration 0006) in the quote's own transaction. */
+		/** Live quotes, kept by a trigger on quote (migration 0011) in the quote's own transaction. */
 		liveQuotes: integer('live_quotes').notNull().default(0),
 		/** Owner's street address for a mobile fit; shown to an installer only after booking. */
 		addressLine: text('address_line'),
@@ -288,6 +328,8 @@ export const job = pgTable(
 		earliestDate: text('earliest_date')
 			.notNull()
 			.generatedAlwaysAs(sql`tapline_earliest_date(preferred_windows)`),
+		/** The owner's note to installers (parking, access, anything to know); masked before booking. */
+		ownerNote: text('owner_note'),
 		priceLowCents: integer('price_low_cents'),
 		priceHighCents: integer('price_high_cents'),
 		withdrawnReason: text('withdrawn_reason'),
@@ -302,7 +344,7 @@ export const job = pgTable(
 		index('job_owner_idx').on(t.ownerId, t.createdAt),
 		index('job_status_lat_lng_idx').on(t.status, t.latitude, t.longitude),
 		// The board's keyset paging on (sort key, id), open jobs only; the geography columns and
-		// their GiST indexes are in the hand-written migration 0006 (see the note above `job`).
+		// their GiST indexes are in the hand-written migration 0011 (see the note above `job`).
 		index('job_open_submitted_idx')
 			.on(t.submittedAt, t.id)
 			.where(sql`status = 'collecting_quotes'`),
@@ -486,7 +528,11 @@ export const jobMessage = pgTable(
 		masked: text('masked').array().notNull().default([]),
 		createdAt: createdAt()
 	},
-	(t) => [index('job_message_thread_idx').on(t.jobId, t.installerId, t.createdAt)]
+	(t) => [
+		index('job_message_thread_idx').on(t.jobId, t.installerId, t.createdAt),
+		// An installer's threads, most recently active first (the day view and the messages page).
+		index('job_message_installer_idx').on(t.installerId, t.createdAt)
+	]
 );
 
 /** Which jobs an installer has been told about, so digests never repeat a job. */

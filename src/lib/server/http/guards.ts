@@ -1,6 +1,6 @@
 import { error, redirect } from '@sveltejs/kit';
 import { getRequestEvent } from '$app/server';
-import type { SessionUser } from '../auth';
+import type { SessionInfo, SessionUser } from '../auth';
 import type { Role } from '../db/schema';
 
 /** URL areas and who may enter them; checked in hooks for every request, actions included. */
@@ -67,6 +67,17 @@ export function requireRole(...roles: Role[]): SessionUser {
 		error(403, 'This part of Tapline is for another kind of account.');
 	}
 	return locals.user;
+}
+
+/**
+ * As {@link requireRole} for any signed-in person, with the session making the request (the
+ * account page marks it and never ends it from the list).
+ */
+export function requireSession(): { user: SessionUser; session: SessionInfo } {
+	const user = requireRole();
+	const { locals } = getRequestEvent();
+	if (!locals.session) error(401, 'Sign in again to continue.');
+	return { user, session: locals.session };
 }
 
 /** The home page of each role. */

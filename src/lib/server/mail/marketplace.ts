@@ -25,6 +25,32 @@ export type MarketplaceEmail =
 	  }
 	| { template: 'booking-lapsed'; data: { businessName: string; title: string; slot: string } }
 	| {
+			template: 'booking-started';
+			data: {
+				displayName: string;
+				businessName: string;
+				title: string;
+				slot: string;
+				holdUntil: string;
+				url: string;
+			};
+	  }
+	| {
+			template: 'booking-lapsed-owner';
+			data: { displayName: string; businessName: string; title: string; slot: string; url: string };
+	  }
+	| {
+			template: 'job-adjusted';
+			data: {
+				businessName: string;
+				title: string;
+				/** The new dates, or null when only the note changed. */
+				dates: string[] | null;
+				noteChanged: boolean;
+				url: string;
+			};
+	  }
+	| {
 			template: 'new-jobs-digest';
 			data: {
 				displayName: string;
@@ -92,6 +118,44 @@ export function renderMarketplaceEmail(message: MarketplaceEmail): RenderedEmail
 					`The owner of the ${message.data.title} did not pay in time, so the provisional booking for ${message.data.slot} lapsed and the time is back in your diary.`
 				]
 			});
+		case 'booking-started':
+			return render(
+				`Your booking with ${message.data.businessName} is held until ${message.data.holdUntil}`,
+				{
+					heading: `Hi ${message.data.displayName}, your slot is held`,
+					paragraphs: [
+						`You chose ${message.data.businessName} for your ${message.data.title}, at ${message.data.slot}.`,
+						`The booking is provisional until you pay into held funds. The installer keeps the time for you until ${message.data.holdUntil}; after that the hold lapses and the job takes quotes again. Nothing has been charged yet.`
+					],
+					action: { label: 'See your booking', url: message.data.url }
+				}
+			);
+		case 'booking-lapsed-owner':
+			return render(`Your hold with ${message.data.businessName} ran out`, {
+				heading: `Hi ${message.data.displayName}, the hold on your booking lapsed`,
+				paragraphs: [
+					`The provisional booking with ${message.data.businessName} for ${message.data.slot} was not paid in time, so the installer's time is free again. Nothing was charged.`,
+					`Your ${message.data.title} takes quotes again: you can book the same quote again while it is open, or choose another.`
+				],
+				action: { label: 'See your quotes', url: message.data.url }
+			});
+		case 'job-adjusted': {
+			const { dates, noteChanged } = message.data;
+			const what = dates && noteChanged ? 'dates and note' : dates ? 'dates' : 'note';
+			return render(`The owner changed the ${what} of the ${message.data.title}`, {
+				heading: `${message.data.businessName}, a job you quoted on changed`,
+				paragraphs: [
+					dates
+						? 'The owner now prefers these dates:'
+						: 'The owner changed their note to installers; read it on the job page.',
+					...(dates && noteChanged ? ['They also changed their note to installers.'] : [])
+				],
+				...(dates ? { list: dates } : {}),
+				action: { label: 'See the job and your quote', url: message.data.url },
+				footnote:
+					'Your quote stands as sent. If your times no longer suit, send a revised quote from the job page.'
+			});
+		}
 		case 'new-jobs-digest': {
 			const n = message.data.jobs.length;
 			return render(n === 1 ? 'A new job in your area' : `${String(n)} new jobs in your area`, {
@@ -111,6 +175,9 @@ const MARKETPLACE_TEMPLATES: ReadonlySet<string> = new Set<MarketplaceEmail['tem
 	'quote-declined',
 	'booking-provisional',
 	'booking-lapsed',
+	'booking-started',
+	'booking-lapsed-owner',
+	'job-adjusted',
 	'new-jobs-digest'
 ]);
 

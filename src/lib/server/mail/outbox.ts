@@ -147,7 +147,7 @@ async function tellAdmins(
 	const admins = await tx
 		.select({ email: user.email, displayName: user.displayName })
 		.from(user)
-		.where(eq(user.role, 'admin'));
+		.where(and(eq(user.role, 'admin'), isNull(user.deletedAt)));
 	for (const admin of admins) {
 		await mail.send(admin.email, {
 			template: 'email-undeliverable',

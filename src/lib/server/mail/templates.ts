@@ -2,6 +2,7 @@
  * E-mail templates. Each renders a subject, an HTML part and a plain-text part from the same words,
  * so a message reads the same in any mail client.
  */
+import { isAccountEmail, renderAccountEmail, type AccountEmail } from './account';
 import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } from './marketplace';
 
 import { renderBlock, type RenderedEmail } from './layout';
@@ -11,6 +12,9 @@ export type { RenderedEmail };
 export type EmailTemplate =
 	| { template: 'verify-email'; data: { displayName: string; url: string } }
 	| { template: 'reset-password'; data: { displayName: string; url: string } }
+	| { template: 'account-suspended'; data: { displayName: string; reason: string } }
+	| { template: 'account-reinstated'; data: { displayName: string; url: string } }
+	| { template: 'password-reset-by-admin'; data: { displayName: string; url: string } }
 	| { template: 'sign-up-existing'; data: { signInUrl: string; resetUrl: string } }
 	| {
 			template: 'email-undeliverable';
@@ -33,7 +37,8 @@ export type EmailTemplate =
 			template: 'quote-withdrawn-suspended';
 			data: { displayName: string; businessName: string; title: string; url: string };
 	  }
-	| MarketplaceEmail;
+	| MarketplaceEmail
+	| AccountEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -54,6 +59,7 @@ const formatDay = (day: string) =>
 /** Renders one of Tapline's e-mails. */
 export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isMarketplaceEmail(message)) return renderMarketplaceEmail(message);
+	if (isAccountEmail(message)) return renderAccountEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {
@@ -74,6 +80,34 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 				action: { label: 'Choose a new password', url: message.data.url },
 				footnote:
 					'The link works for one hour and only once. If you did not ask, ignore this message: your password stays as it is.'
+			});
+		case 'account-suspended':
+			return renderBlock('Your Tapline account is suspended', {
+				heading: `Hi ${message.data.displayName}, your account is suspended`,
+				paragraphs: [
+					`A Tapline admin suspended this account: ${message.data.reason}`,
+					'You are signed out and cannot sign in while it lasts. Open quotes were withdrawn and the owners told; bookings already made stay as they are while we sort this out with you.',
+					'Reply to this e-mail to talk it through with us.'
+				]
+			});
+		case 'account-reinstated':
+			return renderBlock('Your Tapline account is active again', {
+				heading: `Welcome back, ${message.data.displayName}`,
+				paragraphs: [
+					'A Tapline admin lifted the suspension of this account. You can sign in again.'
+				],
+				action: { label: 'Sign in', url: message.data.url }
+			});
+		case 'password-reset-by-admin':
+			return renderBlock('Choose a new Tapline password', {
+				heading: `Hi ${message.data.displayName}, please choose a new password`,
+				paragraphs: [
+					'A Tapline admin asked for a new password on this account, for its safety: you are signed out everywhere and the old password no longer works.',
+					'Choose a new one with the link below.'
+				],
+				action: { label: 'Choose a new password', url: message.data.url },
+				footnote:
+					'The link works for one hour and only once; after that, use "Forgot password" on the sign-in page.'
 			});
 		case 'sign-up-existing':
 			return renderBlock('Someone tried to sign up to Tapline with your address', {

@@ -1,14 +1,44 @@
 import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { getApplicationStatus, submitApplication } from '$lib/server/installers';
+import { getInstallerDay } from '$lib/server/installer-day';
+import { formatDay } from '$lib/time';
+import { fitRow, threadRow, waitingQuoteRow } from '$lib/day-rows';
 import { refusalFail } from '$lib/server/http/respond';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
 	const installer = requireRole('installer');
-	const status = await getApplicationStatus(installer.id);
+	const now = new Date();
+	const [status, day] = await Promise.all([
+		getApplicationStatus(installer.id),
+		getInstallerDay(installer.id, now)
+	]);
 	const p = status.profile;
+	const zone = day.fits.timeZone;
 	return {
+		today: formatDay(now, zone, now),
+		day: {
+			fits: { rows: day.fits.rows.map((f) => fitRow(f, zone, now)), more: day.fits.more },
+			quotes: {
+				rows: day.quotes.rows.map((q) => waitingQuoteRow(q, zone, now)),
+				more: day.quotes.more
+			},
+			threads: {
+				rows: day.threads.rows.map((t) => threadRow(t, zone, now)),
+				more: day.threads.more
+			},
+			newJobs: {
+				...day.newJobs,
+				rows: day.newJobs.rows.map((j) => ({
+					id: j.id,
+					title: j.title,
+					suburb: j.suburb,
+					distance: `${j.distanceKm.toFixed(1)} km`,
+					posted: formatDay(new Date(j.postedAt), zone, now)
+				}))
+			}
+		},
 		displayName: installer.displayName,
 		installerId: installer.id,
 		stage: status.stage,

@@ -13,16 +13,24 @@ import {
 	unblockDate
 } from '$lib/server/diary';
 import { getInstallerProfile } from '$lib/server/installers';
+import { listUpcomingFits } from '$lib/server/installer-day';
+import { refusalMessage } from '$lib/server/http/respond';
+import { fitRow } from '$lib/day-rows';
 import { validateWeeklyHours, type Weekday, type WeeklyHours } from '$lib/schedule';
 import { localDate } from '$lib/vetting';
 import type { Actions, PageServerLoad } from './$types';
 
+/** Booked fits the hours page lists before its link to all of them. */
+const BOOKED_SHOWN = 10;
+
 export const load: PageServerLoad = async () => {
 	const installer = requireRole('installer');
-	const [p, hours, blocked] = await Promise.all([
+	const now = new Date();
+	const [p, hours, blocked, fits] = await Promise.all([
 		getInstallerProfile(installer.id),
 		getWeeklyHours(installer.id),
-		listBlockedDates(installer.id)
+		listBlockedDates(installer.id),
+		listUpcomingFits(installer.id, { limit: BOOKED_SHOWN }, now)
 	]);
 	const start = HOURS_FORM_ORDER.map((d) => hours.find((h) => h.weekday === d)?.start ?? '08:00');
 	const end = HOURS_FORM_ORDER.map((d) => hours.find((h) => h.weekday === d)?.end ?? '17:00');
@@ -36,6 +44,7 @@ export const load: PageServerLoad = async () => {
 		hoursForm,
 		blockForm,
 		blocked,
+		booked: { rows: fits.rows.map((f) => fitRow(f, fits.timeZone, now)), more: fits.more },
 		hasProfile: p !== null,
 		timeZone,
 		today: localDate(new Date(), timeZone)
@@ -70,7 +79,13 @@ export const actions = {
 		if (form.data.day < localDate(new Date(), p.timeZone)) {
 			return setError(form, 'day', 'Choose today or a later date.');
 		}
-		await blockDate(installer.id, form.data.day, form.data.note || null);
+		const blocked = await blockDate(
+			installer.id,
+			form.data.day,
+			form.data.note || null,
+			p.timeZone
+		);
+		if (!blocked.ok) return refusalMessage(form, blocked);
 		return message(form, 'Date blocked.');
 	},
 	unblock: async ({ request }) => {

@@ -1,7 +1,7 @@
 import { fail } from '@sveltejs/kit';
 import { setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
-import { placeStepSchema, type TimeWindow } from '$lib/forms/job';
+import { chosenWindows, placeStepSchema } from '$lib/forms/job';
 import { GeocoderUnavailable, reversePlace, searchPlaces } from '$lib/server/geocoding';
 import { checkPreferredDates, saveJobStep } from '$lib/server/jobs';
 import { finishStep, loadEditableJob } from '../editable-job';
@@ -22,15 +22,7 @@ export const actions = {
 		if (!form.valid) return fail(400, { form });
 		const d = form.data;
 
-		const windows = (
-			[
-				[d.date1, d.window1],
-				[d.date2, d.window2],
-				[d.date3, d.window3]
-			] as const
-		)
-			.filter((w): w is readonly [string, TimeWindow] => Boolean(w[0]))
-			.map(([date, window]) => ({ date, window }));
+		const windows = chosenWindows(d);
 		const dateProblem = checkPreferredDates(windows, job.timeZone);
 		if (dateProblem) return setError(form, 'date1', dateProblem);
 

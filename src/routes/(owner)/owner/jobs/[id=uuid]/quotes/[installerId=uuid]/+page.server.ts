@@ -8,9 +8,9 @@ import { jobStatusShown, quoteStatusShown } from '$lib/holds';
 import { bookQuote, getLiveBookingForJob, HOLD_MINUTES } from '$lib/server/bookings';
 import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { getOwnedJob } from '$lib/server/jobs';
-import { refusalMessage } from '$lib/server/http/respond';
+import { orError, refusalMessage } from '$lib/server/http/respond';
 import { formatSlotLabel } from '$lib/schedule';
-import { listJobMessages, postJobMessage } from '$lib/server/threads';
+import { getOwnerThread, postJobMessage } from '$lib/server/threads';
 import { listQuotesForOwner } from '$lib/server/quotes';
 import { CONTACTS_HIDDEN_NOTE } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';
@@ -27,16 +27,17 @@ export const load: PageServerLoad = async ({ params }) => {
 	const owner = requireRole('owner');
 	const job = await getOwnedJob(params.id, owner.id);
 	if (!job) error(404, NOT_FOUND);
-	const [quotes, messages, live] = await Promise.all([
+	const [quotes, thread, live] = await Promise.all([
 		listQuotesForOwner(job.id, owner.id),
-		listJobMessages(job.id, params.installerId),
+		getOwnerThread(job.id, owner.id, params.installerId),
 		getLiveBookingForJob(job.id)
 	]);
+	// Only an installer who quoted (or wrote about the job) has a page here.
+	const { messages, businessName } = orError(thread);
 	// A hold that ran out reads as over at once (booking it again lapses it for good).
 	const jobStatus = jobStatusShown(job.status, live !== null);
 	const found = quotes?.find((x) => x.installerId === params.installerId) ?? null;
 	const q = found && { ...found, status: quoteStatusShown(found.status, live !== null) };
-	if (!q && messages.length === 0) error(404, NOT_FOUND);
 	const now = Date.now();
 	const [bookForm, replyForm] = await Promise.all([
 		superValidate({ quoteId: q?.id ?? '', slot: '' }, zod4(bookSchema), { errors: false }),
@@ -77,6 +78,7 @@ export const load: PageServerLoad = async ({ params }) => {
 			!q.onHold &&
 			(!q.expiresAt || q.expiresAt.getTime() > now),
 		holdMinutes: HOLD_MINUTES,
+		businessName,
 		messages: messages.map((m) => ({ ...m, mine: m.authorId === owner.id })),
 		bookForm,
 		replyForm

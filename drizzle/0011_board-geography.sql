@@ -1,5 +1,5 @@
 -- Hand-written (drizzle-kit generate --custom): the job board's PostGIS columns, their GiST
--- indexes, the live-quote count kept by a trigger, and the backfill of jobs posted before 0005.
+-- indexes, the live-quote count kept by a trigger, and the backfill of jobs posted before 0010.
 -- drizzle-kit quotes a `geography(Point,4326)` type as an identifier, so these columns live here
 -- and not in schema.ts; they are generated, so no code writes them.
 

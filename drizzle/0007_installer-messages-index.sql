@@ -1,0 +1,1 @@
+CREATE INDEX "job_message_installer_idx" ON "job_message" USING btree ("installer_id","created_at");

@@ -1,0 +1,50 @@
+/**
+ * The admin's forms for accounts: the list's filters (a GET form) and the reason every change to
+ * an account carries, with an explicit confirmation.
+ */
+import { z } from 'zod';
+import type { Booking } from '$lib/server/db/schema';
+import { isCalendarDate, textField } from './fields';
+
+export const USER_ROLES = ['owner', 'installer', 'admin'] as const;
+export const ACCOUNT_STANDINGS = ['active', 'suspended'] as const;
+
+/** The account list's query string; anything unknown falls back to "all". */
+export const userQuerySchema = z.object({
+	q: textField().max(100).catch(''),
+	role: z.enum(USER_ROLES).or(z.literal('')).catch(''),
+	standing: z.enum(ACCOUNT_STANDINGS).or(z.literal('')).catch(''),
+	page: z.coerce.number().int().min(1).max(100_000).catch(1)
+});
+
+/** A change to an account: why (kept in the audit trail and, for a suspension, e-mailed). */
+export const accountActionSchema = z.object({
+	reason: textField({ error: 'Say why, in a few words' })
+		.trim()
+		.min(5, { error: 'Say why, in a few words (at least 5 characters)' })
+		.max(300, { error: 'Keep the reason under 300 characters' }),
+	// A boolean, not literal(true): superforms would tick a literal's box on the admin's behalf.
+	confirm: z
+		.boolean()
+		.default(false)
+		.refine((v) => v, { message: 'Tick the box to confirm' })
+});
+
+export const BOOKING_STATUSES = [
+	'awaiting_payment',
+	'confirmed',
+	'cancelled',
+	'lapsed'
+] as const satisfies readonly Booking['status'][];
+
+/** A calendar date in a query string, or '' when absent or not a real date. */
+const queryDate = z.string().refine(isCalendarDate).catch('').or(z.literal(''));
+
+/** The admin booking list's query string (and the CSV export's); unknown values mean "all". */
+export const bookingQuerySchema = z.object({
+	from: queryDate,
+	to: queryDate,
+	status: z.enum(BOOKING_STATUSES).or(z.literal('')).catch(''),
+	q: textField().max(100).catch(''),
+	page: z.coerce.number().int().min(1).max(100_000).catch(1)
+});
