@@ -83,10 +83,14 @@ async function main() {
 	);
 	await report.step('ports free', () => requireFreePorts(servicePorts));
 	await report.step('npm packages', (step) => ensureNodeModules(report.run).then(step.note));
-	// PostgreSQL unless a database is given; DejaVu and fontconfig's settings for the map tiles' labels.
-	const debian = ['postgresql', 'fonts-dejavu-core', 'fontconfig-config'].filter(
-		(name) => name !== 'postgresql' || !config.externalDatabaseUrl
-	);
+	// PostgreSQL and PostGIS unless a database is given; DejaVu and fontconfig's settings for the
+	// map tiles' labels.
+	const debian = [
+		'postgresql',
+		'postgresql-15-postgis-3',
+		'fonts-dejavu-core',
+		'fontconfig-config'
+	].filter((name) => !name.startsWith('postgresql') || !config.externalDatabaseUrl);
 	await report.step('Debian packages', (step) =>
 		ensureDebianPackages(debian, report.run).then(step.note)
 	);

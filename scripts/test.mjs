@@ -87,7 +87,13 @@ async function main() {
 	await report.step('npm packages', (step) => ensureNodeModules(report.run).then(step.note));
 	await report.step('Debian packages', (step) =>
 		ensureDebianPackages(
-			['postgresql', 'chromium', 'fonts-dejavu-core', 'fontconfig-config'],
+			[
+				'postgresql',
+				'postgresql-15-postgis-3',
+				'chromium',
+				'fonts-dejavu-core',
+				'fontconfig-config'
+			],
 			report.run
 		).then(step.note)
 	);

@@ -41,6 +41,8 @@ export function findPostgresBin() {
 // Debian packages the scripts may install, each with how to tell it is there.
 const APT = {
 	postgresql: () => findPostgresBin() !== null,
+	// PostGIS for the job board's geography columns (CREATE EXTENSION postgis in a migration).
+	'postgresql-15-postgis-3': () => existsSync('/usr/share/postgresql/15/extension/postgis.control'),
 	chromium: () => existsSync('/usr/bin/chromium'),
 	// The tile fake's labels: sharp draws SVG text with fonts found through fontconfig.
 	'fonts-dejavu-core': () => existsSync('/usr/share/fonts/truetype/dejavu/DejaVuSans.ttf'),

@@ -19,7 +19,7 @@ export interface BoardJob {
 	/** Centre of the job's ~1 km grid cell. */
 	lat: number;
 	lng: number;
-	/** From the installer's base to the cell centre, km to one decimal. */
+	/** From the installer's base to the cell centre, km rounded up to one decimal (shownKm in $lib/geo). */
 	distanceKm: number;
 	bodyStyle: string;
 	cameras: string;
@@ -34,3 +34,23 @@ export interface BoardJob {
 	myQuote: string | null;
 	postedAt: string;
 }
+
+/**
+ * The map's server-side clusters cut the view into at most this many cells across and down
+ * (17 × 17 = 289 cells at worst, as a view rarely lines up with the grid), so no view carries
+ * more than a few hundred markers whatever the market size.
+ */
+export const MAX_CLUSTER_CELLS_ACROSS = 16;
+
+/** One marker of the board's map: a grid cell of offered jobs, naming the job when it holds one. */
+export interface BoardCluster {
+	/** The mean of the cell's jobs' approximate (grid-cell centre) points. */
+	lat: number;
+	lng: number;
+	count: number;
+	job: { id: string; title: string } | null;
+}
+
+/** What every distance on the board and the job page is, said once where the figures show. */
+export const DISTANCE_NOTE =
+	'Distances are straight-line from your base to the centre of the 1 km square around the job, so they are accurate to about 1 km; the same figure decides your service area, the "within" filter and the travel fee.';

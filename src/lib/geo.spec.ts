@@ -4,6 +4,8 @@ import {
 	EARTH_RADIUS_KM,
 	boundingBox,
 	distanceKm,
+	leafletRadiusMetres,
+	shownKm,
 	snapToGrid,
 	withinServiceArea,
 	type LatLng
@@ -87,8 +89,8 @@ describe('distanceKm', () => {
 	it('matches the published BNA–LAX haversine example', () => {
 		// Rosetta Code, task "Haversine formula": Nashville International (N 36°7.2', W 86°40.2') to
 		// Los Angeles International (N 33°56.4', W 118°24.0') with R = 6372.8 km gives
-		// 2887.2599506071106 km (figures as published there, recalled from memory). turf uses the
-		// mean radius 6371.0088 km, so rescale before comparing.
+		// 2887.2599506071106 km (figures as published there, recalled from memory). Tapline uses
+		// the WGS84 mean radius 6371.0087714 km, so rescale before comparing.
 		const bna = { lat: 36 + 7.2 / 60, lng: -(86 + 40.2 / 60) };
 		const lax = { lat: 33 + 56.4 / 60, lng: -(118 + 24 / 60) };
 		expect((distanceKm(bna, lax) * 6372.8) / EARTH_RADIUS_KM).toBeCloseTo(2887.2599506, 5);
@@ -228,5 +230,44 @@ describe('withinServiceArea', () => {
 		expect(withinServiceArea(GAWLER, ADELAIDE, 38)).toBe(false);
 		expect(withinServiceArea(ADELAIDE, ADELAIDE, 0)).toBe(true);
 		expect(() => withinServiceArea(GAWLER, ADELAIDE, -1)).toThrow(RangeError);
+	});
+});
+
+describe('the one distance model', () => {
+	it('is the WGS84 mean radius R1 = (2a + b) / 3 that PostGIS uses for its sphere', () => {
+		// NIMA TR8350.2 (WGS84): a = 6378137 m, 1/f = 298.257223563, so b = 6356752.314245 m and
+		// R1 = (2 x 6378137 + 6356752.314245) / 3 = 6371008.771415 m (worked by hand). IUGG quotes
+		// R1 = 6371.0088 km, the figure turf rounds to.
+		expect(EARTH_RADIUS_KM).toBeCloseTo(6371.008771415, 9);
+		expect(EARTH_RADIUS_KM.toFixed(4)).toBe('6371.0088');
+	});
+
+	it('agrees with geographiclib on the same sphere to well under a millimetre', () => {
+		// Reference: Karney, J. Geodesy 87 (2013), geographiclib-geodesic with flattening 0.
+		const sphere = new Geodesic.Geodesic(EARTH_RADIUS_KM * 1000, 0);
+		const rand = mulberry32(2026);
+		for (let i = 0; i < 500; i++) {
+			const a = { lat: -40 + rand() * 15, lng: 130 + rand() * 15 };
+			const b = { lat: a.lat + (rand() - 0.5) * 4, lng: a.lng + (rand() - 0.5) * 4 };
+			const { s12 } = sphere.Inverse(a.lat, a.lng, b.lat, b.lng);
+			expect(Math.abs(distanceKm(a, b) * 1000 - s12!)).toBeLessThan(1e-4);
+		}
+	});
+
+	it('shows kilometres rounded up to 0.1, so the figure shown agrees with the circle', () => {
+		// Worked by hand: 38,950 m is 38.95 km, shown 39.0; 39,000 m is exactly 39.0; one
+		// centimetre more is outside a 39 km circle and shows 39.1.
+		expect(shownKm(38_950)).toBe(39);
+		expect(shownKm(39_000)).toBe(39);
+		expect(shownKm(39_000.01)).toBe(39.1);
+		expect(shownKm(0)).toBe(0);
+	});
+
+	it("draws Leaflet's circle with the same central angle on Leaflet's smaller sphere", () => {
+		// Leaflet's L.CRS.Earth.R is 6,371,000 m (Leaflet source, from memory).
+		const metres = leafletRadiusMetres(39);
+		expect(metres / 6_371_000).toBeCloseTo(39 / EARTH_RADIUS_KM, 15);
+		expect(metres).toBeLessThan(39_000);
+		expect(39_000 - metres).toBeCloseTo(0.0537, 3);
 	});
 });

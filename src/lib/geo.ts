@@ -1,10 +1,12 @@
 /**
- * Distance and location privacy. Everything here works on a sphere with turf's mean Earth
- * radius, so the bounding box, the distance check and the grid agree with each other; the
- * ellipsoid would change distances by a few tenths of a percent, which no service radius needs.
+ * Distance and location privacy. Tapline has one distance model, used for every decision, filter,
+ * figure shown, circle drawn and travel fee: great-circle distance on the sphere of the WGS84 mean
+ * radius that PostGIS uses for geography with `use_spheroid => false` (ST_DWithin, ST_Distance,
+ * the <-> operator), so the pure code here and the SQL of $lib/server/matching agree to well
+ * under a millimetre. The ellipsoid would change distances by a few tenths of a percent, which no
+ * service radius needs, and a sphere keeps the browser, the server and PostgreSQL on one formula.
  */
 import { distance } from '@turf/distance';
-import { earthRadius } from '@turf/helpers';
 
 /** A point in decimal degrees (WGS84 latitude and longitude). */
 export type LatLng = { lat: number; lng: number };
@@ -15,8 +17,20 @@ export type BoundingBox = { minLat: number; maxLat: number; minLng: number; maxL
 /** A point snapped to the centre of its grid cell, with the cell's id. */
 export type SnappedPoint = LatLng & { cellId: string };
 
-/** Turf's mean Earth radius (IUGG mean radius R1 of the WGS84 ellipsoid), in km. */
-export const EARTH_RADIUS_KM = earthRadius / 1000;
+/** WGS84 semi-major axis a, metres (NIMA TR8350.2, WGS84). */
+const WGS84_A = 6378137;
+/** WGS84 flattening f = 1 / 298.257223563 (NIMA TR8350.2, WGS84). */
+const WGS84_F = 1 / 298.257223563;
+
+/**
+ * The mean Earth radius R1 = (2a + b) / 3 of the WGS84 ellipsoid (IUGG), in km: 6371.0087714.
+ * PostGIS computes its sphere's radius this way (spheroid_init in liblwgeom); turf rounds the same
+ * figure to 6371.0088 km, which would put the two 0.9 mm apart at 200 km.
+ */
+export const EARTH_RADIUS_KM = (2 * WGS84_A + WGS84_A * (1 - WGS84_F)) / 3 / 1000;
+
+/** Leaflet's L.circle measures its radius on a sphere of 6,371,000 m (L.CRS.Earth.R). */
+const LEAFLET_EARTH_RADIUS_M = 6371000;
 
 /**
  * Kilometres per degree used for the privacy grid's rows: 111.32 km is one degree along the
@@ -33,14 +47,33 @@ const RADIANS = Math.PI / 180;
 const BOX_MARGIN_DEGREES = 1e-9;
 
 /**
- * Great-circle distance between two points in kilometres (haversine, turf's mean radius).
+ * Great-circle distance between two points in kilometres: turf's haversine angle on the sphere
+ * of {@link EARTH_RADIUS_KM}, the distance PostGIS gives geography with use_spheroid => false.
  * @param a first point
  * @param b second point
  */
 export function distanceKm(a: LatLng, b: LatLng): number {
 	assertLatLng(a);
 	assertLatLng(b);
-	return distance([a.lng, a.lat], [b.lng, b.lat], { units: 'kilometers' });
+	return distance([a.lng, a.lat], [b.lng, b.lat], { units: 'radians' }) * EARTH_RADIUS_KM;
+}
+
+/**
+ * A distance as shown to people: kilometres to one decimal, rounded up, so a job shown as
+ * "39.0 km" is inside a 39 km circle or a "within 39 km" filter and one shown as "39.1 km" is not.
+ * @param metres the model's distance in metres (from SQL or {@link distanceKm} × 1000)
+ */
+export function shownKm(metres: number): number {
+	return Math.ceil(metres / 100) / 10;
+}
+
+/**
+ * The radius to give Leaflet's L.circle so it draws the circle of {@link EARTH_RADIUS_KM}'s model
+ * (same central angle): Leaflet measures on its own, slightly smaller sphere.
+ * @param radiusKm the service radius in the model's kilometres
+ */
+export function leafletRadiusMetres(radiusKm: number): number {
+	return ((radiusKm * 1000) / (EARTH_RADIUS_KM * 1000)) * LEAFLET_EARTH_RADIUS_M;
 }
 
 /**

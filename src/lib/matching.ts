@@ -2,7 +2,7 @@
  * Which installers a job is offered to. Pure: no I/O, so the job board, the quote form, the server
  * and the tests share one source of truth.
  */
-import { distanceKm, snapToGrid, withinServiceArea, type LatLng } from './geo';
+import { distanceKm, shownKm, snapToGrid, withinServiceArea, type LatLng } from './geo';
 import type { JobRequestInput } from './scope/request';
 import { SKILL_LABELS } from './labels';
 import { type InstallerSkill } from './vetting';
@@ -125,7 +125,8 @@ export function matchProblem(job: JobReach, installer: InstallerReach): MatchPro
 
 /**
  * Where an installer is told a job is: the centre of its ~1 km grid cell, and the distance from
- * their base to that centre rounded to 0.1 km. The distance is measured to the cell centre, not
+ * their base to that centre rounded up to 0.1 km ({@link shownKm}: the figure the decision, the
+ * filter and the travel fee agree with). The distance is measured to the cell centre, not
  * to the job, so it cannot be combined with the installer's own base to narrow the cell down.
  * @param job the job's true location
  * @param base the installer's base
@@ -136,6 +137,6 @@ export function approximateLocation(job: LatLng, base: LatLng) {
 		lat: snapped.lat,
 		lng: snapped.lng,
 		cellId: snapped.cellId,
-		distanceKm: Math.round(distanceKm(base, snapped) * 10) / 10
+		distanceKm: shownKm(distanceKm(base, snapped) * 1000)
 	};
 }

@@ -129,7 +129,8 @@ describe('what installers see', () => {
 		do {
 			const page = await searchBoard(ctx, boardQuerySchema.parse({ limit: '2', cursor }));
 			expect(page).not.toBeNull();
-			expect(page!.total).toBe(5);
+			// Counted on the first page only: a later page costs its rows, not the whole circle.
+			expect(page!.total).toBe(cursor === undefined ? 5 : null);
 			seen.push(...page!.jobs.map((j) => j.id));
 			cursor = page!.nextCursor ?? undefined;
 		} while (cursor);

@@ -177,16 +177,16 @@ export async function listRecentThreads(installerId: string, { limit, offset = 0
 export async function listNewJobsForDay(installerId: string, limit: number, now = new Date()) {
 	const context = await getInstallerContext(installerId);
 	if (!context?.canQuote) return { rows: [], total: 0, canQuote: false };
-	const jobs = await listNewOfferedJobs(context, 7, now);
+	const { jobs, total } = await listNewOfferedJobs(context, { days: 7, limit, now, counted: true });
 	return {
-		rows: jobs.slice(0, limit).map((j) => ({
+		rows: jobs.map((j) => ({
 			id: j.id,
 			title: j.title,
 			suburb: j.suburb,
 			distanceKm: j.distanceKm,
 			postedAt: j.postedAt
 		})),
-		total: jobs.length,
+		total: total ?? jobs.length,
 		canQuote: true
 	};
 }

@@ -1,14 +1,26 @@
 /**
- * Which open jobs an installer is offered and which installers a job reaches. PostgreSQL narrows
- * the candidates with a latitude/longitude box over an index (job_status_lat_lng_idx for jobs,
- * installer_profile_lat_lng_idx for installers); turf's great-circle distance then decides, with
- * the skills and working-mode checks of $lib/matching. Installers only ever get a job's grid-cell
- * centre until it is booked with them.
+ * Which open jobs an installer is offered and which installers a job reaches, decided in
+ * PostgreSQL with PostGIS: ST_DWithin on the GiST indexes of the job's cell point
+ * (`job.approx_location`) and the installer's base (`installer_profile.base`), on the sphere of
+ * $lib/geo's one distance model (`use_spheroid => false`); skills (`job.required_skills`, written
+ * at posting) and working mode as SQL predicates; every filter of GET /api/jobs in SQL; keyset
+ * paging on (sort key, id); nearest first with the KNN operator `<->`; live quote counts from
+ * `job.live_quotes` (a trigger keeps it in the quote's transaction). The pure rule these mirror is
+ * matchProblem in $lib/matching, and tests/integration/board.test.ts holds the two equal.
+ * Installers only ever get a job's grid-cell centre until it is booked with them.
  */
 import { maskContactDetails } from '$lib/masking';
-import { and, between, eq, gt, inArray, sql } from 'drizzle-orm';
-import { z } from 'zod';
-import { boundingBox, distanceKm, type BoundingBox, type LatLng } from '$lib/geo';
+import { and, eq, inArray, sql } from 'drizzle-orm';
+import { shownKm, type BoundingBox, type LatLng } from '$lib/geo';
+import {
+	boardClustersSql,
+	boardPageSql,
+	boardQuerySchema,
+	boardTotalSql,
+	REACHES,
+	type BoardQuery,
+	type BoardSqlQuery
+} from './board-sql';
 import {
 	approximateLocation,
 	matchProblem,
@@ -16,19 +28,17 @@ import {
 	type InstallerReach,
 	type SkillNeeds
 } from '$lib/matching';
-import { BOARD_DEFAULT_DIR, BOARD_SORTS, type BoardJob, type BoardSort } from '$lib/board';
-import { decodeCursor, pageAfter } from '$lib/paging';
-import { BODY_STYLES, CAMERA_SETUPS, POWER_MODES } from '$lib/scope/request';
-import { parkingSummary } from '$lib/scope/parking';
+import type { BoardCluster, BoardJob } from '$lib/board';
+import { encodeCursor } from '$lib/paging';
 import { canQuote } from '$lib/vetting';
 import { db } from './db';
-import { booking, installerProfile, job, jobNotice, quote, user, type Job } from './db/schema';
+import { booking, installerProfile, job, quote, user, type Job } from './db/schema';
 import { appUrl } from './mail/app-url';
 import { withMail } from './mail/outbox';
-import { titleOrUntitled } from '$lib/posted-job';
+import { scopeSummary, titleOrUntitled } from '$lib/posted-job';
+import type { ScopeSheet } from '$lib/scope';
 
-/** The service-area form's upper limit, so a box this wide around a job holds every installer who could reach it. */
-export const MAX_SERVICE_RADIUS_KM = 200;
+export { boardQuerySchema, MAX_SERVICE_RADIUS_KM, type BoardQuery } from './board-sql';
 
 /** An installer as the matching sees them. */
 export interface InstallerContext extends InstallerReach {
@@ -83,248 +93,194 @@ export function jobReach(
 }
 
 /**
- * Vetted, unpaused installers whose circle holds the job and whose skills and way of working fit
- * it, nearest first. SQL keeps installers within the widest possible radius; turf decides.
- * @param jobRow the job's place and needs
+ * Vetted, unpaused installers whose circle holds the job's cell centre and whose skills and way of
+ * working fit it, nearest first: one query over the GiST index on the installers' bases.
+ * @param jobRow the job (its id is enough)
  */
-export async function findInstallersForJob(
-	jobRow: Pick<Job, 'latitude' | 'longitude' | 'locationMode' | 'bodyStyle' | 'cameras' | 'power'>
-) {
-	const reach = jobReach(jobRow);
-	if (!reach) return [];
-	const box = boundingBox(reach.location, MAX_SERVICE_RADIUS_KM + CELL_HALF_DIAGONAL_KM);
-	const rows = await db
-		.select({ profile: installerProfile, email: user.email, displayName: user.displayName })
-		.from(installerProfile)
-		.innerJoin(user, eq(user.id, installerProfile.userId))
-		.where(
-			and(
-				eq(installerProfile.vettingStatus, 'approved'),
-				sql`${installerProfile.pausedReason} is null`,
-				between(installerProfile.latitude, box.minLat, box.maxLat),
-				between(installerProfile.longitude, box.minLng, box.maxLng)
-			)
-		);
-	return rows
-		.map((r) => ({
-			id: r.profile.userId,
-			email: r.email,
-			displayName: r.displayName,
-			businessName: r.profile.businessName,
-			distanceKm: distanceKm(reach.location, { lat: r.profile.latitude, lng: r.profile.longitude }),
-			problem: matchProblem(reach, reachOf(r.profile))
-		}))
-		.filter((r) => r.problem === null)
-		.sort((a, b) => a.distanceKm - b.distanceKm)
-		.map(({ problem: _problem, ...r }) => r);
+export async function findInstallersForJob(jobRow: Pick<Job, 'id'>) {
+	const { rows } = await db.execute<{
+		id: string;
+		email: string;
+		display_name: string;
+		business_name: string;
+		distance_m: number;
+	}>(sql`select p.user_id as id, u.email, u.display_name, p.business_name,
+			p.base <-> j.approx_location as distance_m
+		from job j
+		join installer_profile p on ${REACHES}
+		join "user" u on u.id = p.user_id
+		where j.id = ${jobRow.id}
+		order by distance_m, p.user_id`);
+	return rows.map((r) => ({
+		id: r.id,
+		email: r.email,
+		displayName: r.display_name,
+		businessName: r.business_name,
+		distanceKm: shownKm(r.distance_m)
+	}));
 }
 
-const bounds = z.string().transform((s, ctx) => {
-	const parts = s.split(',').map(Number);
-	const [minLng, minLat, maxLng, maxLat] = parts;
-	if (
-		parts.length !== 4 ||
-		parts.some((n) => !Number.isFinite(n)) ||
-		minLng === undefined ||
-		minLat === undefined ||
-		maxLng === undefined ||
-		maxLat === undefined ||
-		minLat < -90 ||
-		maxLat > 90 ||
-		minLat > maxLat ||
-		minLng > maxLng
-	) {
-		ctx.addIssue({
-			code: 'custom',
-			message:
-				'bounds must be minLng,minLat,maxLng,maxLat in decimal degrees, south-west corner first'
-		});
-		return z.NEVER;
-	}
-	return { minLat, maxLat, minLng, maxLng } satisfies BoundingBox;
-});
+/** A board row as the page query returns it. */
+interface BoardRow extends Record<string, unknown> {
+	id: string;
+	title: string | null;
+	suburb: string | null;
+	lat: number;
+	lng: number;
+	distance_m: number;
+	body_style: string;
+	cameras: string;
+	power: string;
+	location_mode: 'mobile' | 'workshop' | null;
+	preferred_windows: Array<{ date: string; window: string }>;
+	scope_summary: string | null;
+	legacy_scope: ScopeSheet | null;
+	price_low_cents: number | null;
+	price_high_cents: number | null;
+	live_quotes: number;
+	my_quote: string | null;
+	posted_at: Date;
+	sort_value: number | string;
+}
 
-/** Query parameters of GET /api/jobs, validated; see the README for each. */
-export const boardQuerySchema = z.object({
-	bounds: bounds.optional(),
-	bodyStyle: z
-		.enum(BODY_STYLES, { error: `bodyStyle must be one of ${BODY_STYLES.join(', ')}` })
-		.optional(),
-	cameras: z
-		.enum(CAMERA_SETUPS, { error: `cameras must be one of ${CAMERA_SETUPS.join(', ')}` })
-		.optional(),
-	power: z
-		.enum(POWER_MODES, { error: `power must be one of ${POWER_MODES.join(', ')}` })
-		.optional(),
-	maxKm: z.coerce
-		.number({ error: 'maxKm must be a number of kilometres' })
-		.positive({ error: 'maxKm must be above 0' })
-		.max(MAX_SERVICE_RADIUS_KM, { error: `maxKm must be at most ${String(MAX_SERVICE_RADIUS_KM)}` })
-		.optional(),
-	unquoted: z.enum(['1', 'true'], { error: 'unquoted must be 1 or true' }).optional(),
-	sort: z
-		.enum(BOARD_SORTS, { error: `sort must be one of ${BOARD_SORTS.join(', ')}` })
-		.default('distance'),
-	dir: z.enum(['asc', 'desc'], { error: 'dir must be asc or desc' }).optional(),
-	cursor: z.string().max(500).optional(),
-	limit: z.coerce
-		.number({ error: 'limit must be a whole number' })
-		.int({ error: 'limit must be a whole number' })
-		.min(1, { error: 'limit must be between 1 and 100' })
-		.max(100, { error: 'limit must be between 1 and 100' })
-		.default(25)
-});
-export type BoardQuery = z.output<typeof boardQuerySchema>;
-
-/**
- * Offering goes by a job's 1 km grid-cell centre, which lies within the cell's half-diagonal
- * (≈ 0.71 km, see snapToGrid) of its exact point; the SQL boxes on the exact columns are widened
- * by this much so no job whose centre qualifies is cut off by its exact point.
- */
-const CELL_HALF_DIAGONAL_KM = 0.75;
-/** The same margin for a map's bounds, in degrees (0.02° ≥ 1.8 km in longitude at Adelaide's latitude). */
-const MAP_BOUNDS_MARGIN_DEGREES = 0.02;
-
-const widen = (b: BoundingBox, by: number): BoundingBox => ({
-	minLat: b.minLat - by,
-	maxLat: b.maxLat + by,
-	minLng: b.minLng - by,
-	maxLng: b.maxLng + by
-});
-
-function intersect(a: BoundingBox, b: BoundingBox): BoundingBox | null {
-	const box = {
-		minLat: Math.max(a.minLat, b.minLat),
-		maxLat: Math.min(a.maxLat, b.maxLat),
-		minLng: Math.max(a.minLng, b.minLng),
-		maxLng: Math.min(a.maxLng, b.maxLng)
+function toBoardJob(r: BoardRow): BoardJob {
+	return {
+		id: r.id,
+		title: titleOrUntitled(r.title),
+		suburb: r.suburb,
+		lat: r.lat,
+		lng: r.lng,
+		distanceKm: shownKm(r.distance_m),
+		bodyStyle: r.body_style,
+		cameras: r.cameras,
+		power: r.power,
+		locationMode: r.location_mode,
+		preferredWindows: r.preferred_windows,
+		// Jobs posted before the summary column existed carry their scope instead (page rows only).
+		scopeSummary: r.scope_summary ?? (r.legacy_scope ? scopeSummary(r.legacy_scope) : ''),
+		priceGuide:
+			r.price_low_cents !== null && r.price_high_cents !== null
+				? { lowCents: r.price_low_cents, highCents: r.price_high_cents }
+				: null,
+		quotes: r.live_quotes,
+		myQuote: r.my_quote,
+		postedAt: new Date(r.posted_at).toISOString()
 	};
-	return box.minLat > box.maxLat || box.minLng > box.maxLng ? null : box;
-}
-
-function summarise(row: Pick<Job, 'scope'>): string {
-	const scope = row.scope;
-	if (!scope) return '';
-	const parts = scope.parts.reduce((n, p) => n + p.quantity, 0);
-	const rear = scope.rearCable ? `, rear cable ${String(scope.rearCable.maxMetres)} m` : '';
-	const parking = scope.parking ? `, ${parkingSummary(scope.parking)}` : '';
-	return `${String(scope.labour.minMinutes)}–${String(scope.labour.maxMinutes)} min, ${String(parts)} parts${rear}${parking}`;
 }
 
 /**
- * Every open job offered to the installer within `box` (or their whole circle), with what the
- * board shows. The SQL box is the service circle's bounding box, cut down to the map's bounds.
+ * One page of offered jobs (see boardPageSql).
+ * @returns null when the cursor is not one this API made for this sort
  */
-export async function listOfferedJobs(installer: InstallerContext, box?: BoundingBox) {
-	const circleBox = boundingBox(installer.base, installer.serviceRadiusKm + CELL_HALF_DIAGONAL_KM);
-	const searchBox = box ? intersect(circleBox, widen(box, MAP_BOUNDS_MARGIN_DEGREES)) : circleBox;
-	if (!searchBox) return [];
-	const liveQuotes = db.$count(quote, and(eq(quote.jobId, job.id), eq(quote.status, 'live')));
-	const rows = await db
-		.select({
-			id: job.id,
-			title: job.title,
-			suburb: job.suburb,
-			latitude: job.latitude,
-			longitude: job.longitude,
-			locationMode: job.locationMode,
-			bodyStyle: job.bodyStyle,
-			cameras: job.cameras,
-			power: job.power,
-			preferredWindows: job.preferredWindows,
-			scope: job.scope,
-			priceLowCents: job.priceLowCents,
-			priceHighCents: job.priceHighCents,
-			submittedAt: job.submittedAt,
-			createdAt: job.createdAt,
-			quotes: liveQuotes,
-			myQuote: quote.status
-		})
-		.from(job)
-		.leftJoin(quote, and(eq(quote.jobId, job.id), eq(quote.installerId, installer.id)))
-		.where(
-			and(
-				eq(job.status, 'collecting_quotes'),
-				between(job.latitude, searchBox.minLat, searchBox.maxLat),
-				between(job.longitude, searchBox.minLng, searchBox.maxLng)
-			)
-		);
-	const offered: BoardJob[] = [];
-	for (const row of rows) {
-		const reach = jobReach(row);
-		if (!reach || matchProblem(reach, installer) !== null) continue;
-		const approx = approximateLocation(reach.location, installer.base);
-		// The map's bounds cut on the cell centre the installer sees, not the hidden true point.
-		if (
-			box &&
-			!(
-				approx.lat >= box.minLat &&
-				approx.lat <= box.maxLat &&
-				approx.lng >= box.minLng &&
-				approx.lng <= box.maxLng
-			)
-		) {
-			continue;
-		}
-		offered.push({
-			id: row.id,
-			title: titleOrUntitled(row.title),
-			suburb: row.suburb,
-			lat: approx.lat,
-			lng: approx.lng,
-			distanceKm: approx.distanceKm,
-			bodyStyle: reach.needs.bodyStyle,
-			cameras: reach.needs.cameras,
-			power: reach.needs.power,
-			locationMode: row.locationMode,
-			preferredWindows: row.preferredWindows,
-			scopeSummary: summarise(row),
-			priceGuide:
-				row.priceLowCents !== null && row.priceHighCents !== null
-					? { lowCents: row.priceLowCents, highCents: row.priceHighCents }
-					: null,
-			quotes: row.quotes,
-			myQuote: row.myQuote,
-			postedAt: (row.submittedAt ?? row.createdAt).toISOString()
-		});
-	}
-	return offered;
+async function boardPage(installer: InstallerContext, query: BoardQuery & { postedSince?: Date }) {
+	const statement = boardPageSql(installer, query);
+	if (!statement) return null;
+	const { rows } = await db.execute<BoardRow>(statement);
+	const more = rows.length > query.limit;
+	const pageRows = rows.slice(0, query.limit);
+	const last = pageRows.at(-1);
+	return {
+		jobs: pageRows.map(toBoardJob),
+		nextCursor: more && last ? encodeCursor(last.sort_value, last.id) : null
+	};
+}
+
+/** The map's clusters for the view (see boardClustersSql). */
+async function boardClusters(
+	installer: InstallerContext,
+	query: BoardQuery,
+	zoom: number
+): Promise<BoardCluster[]> {
+	const { rows } = await db.execute<{
+		count: number;
+		lat: number;
+		lng: number;
+		job_id: string | null;
+		title: string | null;
+	}>(boardClustersSql(installer, query, zoom));
+	return rows.map((r) => ({
+		lat: r.lat,
+		lng: r.lng,
+		count: r.count,
+		job: r.job_id ? { id: r.job_id, title: titleOrUntitled(r.title) } : null
+	}));
+}
+
+/** How many offered jobs match the query (see boardTotalSql). */
+async function boardTotal(installer: InstallerContext, query: BoardSqlQuery): Promise<number> {
+	const { rows } = await db.execute<{ n: number }>(boardTotalSql(installer, query));
+	return rows[0]?.n ?? 0;
 }
 
 /**
- * One page of the board for GET /api/jobs: offered jobs in the bounds, filtered, sorted and
- * paged with a keyset cursor on (sort value, id), so pages never repeat or skip a job while the
- * list is stable.
+ * One page of the board for GET /api/jobs and the board page: offered jobs in the bounds,
+ * filtered, sorted and paged with a keyset cursor on (sort value, id), so pages never repeat or
+ * skip a job while the list is stable. With `zoom`, also the map's clusters for the whole view,
+ * whose counts give the total; without, the total is counted on a first page only (`counted`
+ * false skips even that: the board page's first paint leaves it to the browser).
  * @returns null when the cursor is not one this API made
  */
-export async function searchBoard(installer: InstallerContext, query: BoardQuery) {
-	const after = query.cursor ? decodeCursor(query.cursor) : null;
-	if (query.cursor && !after) return null;
-	const all = (await listOfferedJobs(installer, query.bounds)).filter(
-		(j) =>
-			(!query.bodyStyle || j.bodyStyle === query.bodyStyle) &&
-			(!query.cameras || j.cameras === query.cameras) &&
-			(!query.power || j.power === query.power) &&
-			(query.maxKm === undefined || j.distanceKm <= query.maxKm) &&
-			(!query.unquoted || j.myQuote === null)
-	);
-	const keys: Record<BoardSort, (j: BoardJob) => number | string> = {
-		distance: (j) => j.distanceKm,
-		newest: (j) => j.postedAt,
-		date: (j) => j.preferredWindows.map((w) => w.date).sort()[0] ?? '9999-12-31',
-		quotes: (j) => j.quotes
+export async function searchBoard(
+	installer: InstallerContext,
+	query: BoardQuery,
+	options: { counted?: boolean } = {}
+) {
+	const counted = options.counted ?? true;
+	const [page, clusters, total] = await Promise.all([
+		boardPage(installer, query),
+		query.zoom === undefined ? null : boardClusters(installer, query, query.zoom),
+		query.zoom !== undefined || query.cursor || !counted ? null : boardTotal(installer, query)
+	]);
+	if (!page) return null;
+	return {
+		jobs: page.jobs,
+		nextCursor: page.nextCursor,
+		total: clusters ? clusters.reduce((n, c) => n + c.count, 0) : total,
+		clusters
 	};
-	const dir = query.dir ?? BOARD_DEFAULT_DIR[query.sort];
-	const { page, nextCursor } = pageAfter(all, keys[query.sort], dir, after, query.limit);
-	return { jobs: page, nextCursor, total: all.length };
 }
 
-/** Open jobs offered to the installer posted in the last `days` days that they have not quoted. */
-export async function listNewOfferedJobs(installer: InstallerContext, days = 7, now = new Date()) {
-	const since = now.getTime() - days * 86_400_000;
-	return (await listOfferedJobs(installer))
-		.filter((j) => j.myQuote === null && new Date(j.postedAt).getTime() >= since)
-		.sort((a, b) => b.postedAt.localeCompare(a.postedAt));
+/**
+ * Every open job offered to the installer within `box` (or their whole circle), nearest first,
+ * unpaged: for tests and small checks that compare the SQL with the pure rule; pages use
+ * {@link searchBoard}.
+ */
+export async function listOfferedJobs(installer: InstallerContext, box?: BoundingBox) {
+	const all: BoardJob[] = [];
+	let cursor: string | undefined;
+	do {
+		const page = await boardPage(installer, {
+			...boardQuerySchema.parse({ limit: '100', cursor }),
+			bounds: box
+		});
+		if (!page) break;
+		all.push(...page.jobs);
+		cursor = page.nextCursor ?? undefined;
+	} while (cursor);
+	return all;
+}
+
+/**
+ * The newest open jobs offered to the installer that they have not quoted, posted in the last
+ * `days` days: one page of the "newest" sort with a date limit in SQL, and with `counted` how
+ * many there are in all (one count on the circle's index).
+ */
+export async function listNewOfferedJobs(
+	installer: InstallerContext,
+	options: { days?: number; limit?: number; now?: Date; counted?: boolean } = {}
+) {
+	const postedSince = new Date(
+		(options.now ?? new Date()).getTime() - (options.days ?? 7) * 86_400_000
+	);
+	const query = {
+		...boardQuerySchema.parse({ sort: 'newest', unquoted: '1', limit: String(options.limit ?? 8) }),
+		postedSince
+	};
+	const [page, total] = await Promise.all([
+		boardPage(installer, query),
+		options.counted ? boardTotal(installer, query) : null
+	]);
+	return { jobs: page?.jobs ?? [], total };
 }
 
 /** What an installer may see of one job, and whether it is booked with them. */
@@ -362,10 +318,6 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 	if (!mine && !myQuote && !(open && problem === null && installer.canQuote)) return null;
 	const j = row.job;
 	const approx = approximateLocation(reach.location, installer.base);
-	const [counted] = await db
-		.select({ n: sql<number>`count(*)::int` })
-		.from(quote)
-		.where(and(eq(quote.jobId, jobId), eq(quote.status, 'live')));
 	return {
 		id: j.id,
 		status: j.status,
@@ -385,7 +337,7 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 		scope: j.scope,
 		request: j.request,
 		timeZone: j.timeZone,
-		quotes: counted?.n ?? 0,
+		quotes: j.liveQuotes,
 		problem,
 		myQuote: myQuote ?? null,
 		booking: mine ?? null,
@@ -407,62 +359,65 @@ const DIGEST_LOOKBACK_DAYS = 14;
 
 /**
  * E-mails each vetted installer one digest of the open jobs offered to them that they have not
- * been told about yet (job_notice), then records the notices, in one transaction per installer.
- * Idempotent: a job is in at most one digest per installer, so a retry sends nothing twice.
+ * been told about yet (job_notice) and have not quoted. The matching is one set-based query over
+ * every recent job and installer (the GiST index on the installers' bases); the notices and the
+ * e-mails are then written in one transaction. Idempotent: the notices are inserted first with
+ * ON CONFLICT DO NOTHING, and only pairs that insert count, so a retry sends nothing twice.
  * @returns how many installers were e-mailed
  */
 export async function sendNewJobDigests(now = new Date()): Promise<number> {
 	const since = new Date(now.getTime() - DIGEST_LOOKBACK_DAYS * 86_400_000);
-	const open = await db
-		.select()
-		.from(job)
-		.where(and(eq(job.status, 'collecting_quotes'), gt(job.submittedAt, since)));
-	type DigestJob = { jobId: string; title: string; suburb: string; distance: string };
-	const byInstaller = new Map<string, { email: string; displayName: string; jobs: DigestJob[] }>();
-	for (const row of open) {
-		const reach = jobReach(row);
-		if (!reach) continue;
-		for (const installer of await findInstallersForJob(row)) {
-			const entry = byInstaller.get(installer.id) ?? {
-				email: installer.email,
-				displayName: installer.displayName,
+	return withMail(async (tx, mail) => {
+		const { rows } = await tx.execute<{
+			installer_id: string;
+			email: string;
+			display_name: string;
+			job_id: string;
+			title: string | null;
+			suburb: string | null;
+			distance_m: number;
+		}>(sql`with offered as (
+				select p.user_id as installer_id, j.id as job_id, p.base <-> j.approx_location as distance_m
+				from job j
+				join installer_profile p on ${REACHES}
+				where j.status = 'collecting_quotes' and j.submitted_at > ${since.toISOString()}::timestamptz
+					and not exists (select 1 from quote q where q.job_id = j.id and q.installer_id = p.user_id)
+			), fresh as (
+				insert into job_notice (installer_id, job_id, created_at)
+				select installer_id, job_id, ${now.toISOString()}::timestamptz from offered
+				on conflict do nothing
+				returning installer_id, job_id
+			)
+			select f.installer_id, u.email, u.display_name, j.id as job_id, j.title, j.suburb, o.distance_m
+			from fresh f
+			join offered o on o.installer_id = f.installer_id and o.job_id = f.job_id
+			join job j on j.id = f.job_id
+			join "user" u on u.id = f.installer_id
+			order by f.installer_id, o.distance_m, j.id`);
+		type DigestJob = { title: string; suburb: string; distance: string };
+		const byInstaller = new Map<
+			string,
+			{ email: string; displayName: string; jobs: DigestJob[] }
+		>();
+		for (const r of rows) {
+			const entry = byInstaller.get(r.installer_id) ?? {
+				email: r.email,
+				displayName: r.display_name,
 				jobs: []
 			};
 			entry.jobs.push({
-				jobId: row.id,
-				title: titleOrUntitled(row.title),
-				suburb: row.suburb ?? 'nearby',
-				distance: `${String(Math.round(installer.distanceKm))} km`
+				title: titleOrUntitled(r.title),
+				suburb: r.suburb ?? 'nearby',
+				distance: `${shownKm(r.distance_m).toFixed(1)} km`
 			});
-			byInstaller.set(installer.id, entry);
+			byInstaller.set(r.installer_id, entry);
 		}
-	}
-	let sent = 0;
-	for (const [installerId, entry] of byInstaller) {
-		await withMail(async (tx, mail) => {
-			const fresh = await tx
-				.insert(jobNotice)
-				.values(entry.jobs.map((j) => ({ installerId, jobId: j.jobId, noticedAt: now })))
-				.onConflictDoNothing()
-				.returning({ jobId: jobNotice.jobId });
-			const quoted = await tx
-				.select({ jobId: quote.jobId })
-				.from(quote)
-				.where(eq(quote.installerId, installerId));
-			const jobs = entry.jobs.filter(
-				(j) => fresh.some((f) => f.jobId === j.jobId) && !quoted.some((q) => q.jobId === j.jobId)
-			);
-			if (jobs.length === 0) return;
+		for (const entry of byInstaller.values()) {
 			await mail.send(entry.email, {
 				template: 'new-jobs-digest',
-				data: {
-					displayName: entry.displayName,
-					jobs: jobs.map(({ title, suburb, distance }) => ({ title, suburb, distance })),
-					url: appUrl('/installer/jobs')
-				}
+				data: { displayName: entry.displayName, jobs: entry.jobs, url: appUrl('/installer/jobs') }
 			});
-			sent++;
-		});
-	}
-	return sent;
+		}
+		return byInstaller.size;
+	});
 }

@@ -73,7 +73,9 @@ export async function submitQuote(
 			return refuse(403, `Your quoting is paused: ${profile.pausedReason}`);
 		}
 		if (!profile.payoutsEnabled) return refuse(403, PAYOUTS_NEEDED_TEXT);
-		const [row] = await tx.select().from(job).where(eq(job.id, jobId)).for('share');
+		// FOR NO KEY UPDATE, not FOR SHARE: the quote's trigger then updates job.live_quotes, and two
+		// transactions both holding a share lock and both upgrading it would deadlock.
+		const [row] = await tx.select().from(job).where(eq(job.id, jobId)).for('no key update');
 		if (!row || row.status === 'drafting') return refuse(404, 'There is no such job.');
 		if (row.status === 'withdrawn') {
 			return refuse(409, 'The owner withdrew this job, so it takes no more quotes.');
@@ -196,7 +198,7 @@ export async function submitQuote(
 /** Withdraws the installer's live quote on an open job. */
 export async function withdrawQuote(installerId: string, jobId: string) {
 	return db.transaction(async (tx) => {
-		await tx.select({ id: job.id }).from(job).where(eq(job.id, jobId)).for('share');
+		await tx.select({ id: job.id }).from(job).where(eq(job.id, jobId)).for('no key update');
 		const [row] = await tx
 			.update(quote)
 			.set({ status: 'withdrawn', updatedAt: new Date() })

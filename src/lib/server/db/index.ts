@@ -18,7 +18,11 @@ export const pool = new pg.Pool({
 	connectionString: env.DATABASE_URL,
 	max: 10,
 	// A database that does not answer at all (network gone) fails a request in seconds, not never.
-	connectionTimeoutMillis: 5_000
+	connectionTimeoutMillis: 5_000,
+	// No JIT and no parallel workers: every query here is a short indexed read or write. PostGIS's
+	// high function costs push the board's plans over jit_above_cost, where compiling took seconds,
+	// and starting workers cost more than the page they shared (npm run bench, bench/RESULTS.md).
+	options: '-c jit=off -c max_parallel_workers_per_gather=0'
 });
 pool.on('error', (err) => console.error('[db] idle connection lost:', err.message));
 // pg-pool listens on a client only while it is idle; a client checked out between two queries of

@@ -275,6 +275,13 @@ export const jobStatus = pgEnum('job_status', [
 	'withdrawn'
 ]);
 
+/**
+ * Besides the columns below, migration 0013 (hand-written: drizzle-kit cannot spell a PostGIS type)
+ * adds generated `geography(Point, 4326)` columns with GiST indexes: `job.location` (the true
+ * point; never in an answer to an installer before booking), `job.approx_location` (the cell
+ * centre, what matching, distance and the map use) and `installer_profile.base`. They are read
+ * only inside SQL ($lib/server/matching), so Drizzle's whole-row selects never carry them.
+ */
 export const job = pgTable(
 	'job',
 	{
@@ -298,6 +305,22 @@ export const job = pgTable(
 		postcode: varchar('postcode', { length: 4 }),
 		latitude: doublePrecision('latitude'),
 		longitude: doublePrecision('longitude'),
+		/**
+		 * The centre of the job's 1 km privacy cell (snapToGrid in $lib/geo, mirrored by the SQL
+		 * functions of migration 0011): what installers are offered by, shown and measured to.
+		 */
+		cellLatitude: doublePrecision('cell_latitude').generatedAlwaysAs(
+			sql`tapline_cell_lat(latitude)`
+		),
+		cellLongitude: doublePrecision('cell_longitude').generatedAlwaysAs(
+			sql`tapline_cell_lng(latitude, longitude)`
+		),
+		/** Skills the job needs (requiredSkills in $lib/matching), written at posting. */
+		requiredSkills: text('required_skills').array(),
+		/** The board's one-line scope summary, written at posting (the board never reads `scope`). */
+		scopeSummary: text('scope_summary'),
+		/** Live quotes, kept by a trigger on quote (migration 0013) in the quote's own transaction. */
+		liveQuotes: integer('live_quotes').notNull().default(0),
 		/** Owner's street address for a mobile fit; shown to an installer only after booking. */
 		addressLine: text('address_line'),
 		timeZone: text('time_zone').notNull().default('Australia/Adelaide'),
@@ -305,6 +328,10 @@ export const job = pgTable(
 			.$type<Array<{ date: string; window: 'morning' | 'midday' | 'afternoon' }>>()
 			.notNull()
 			.default([]),
+		/** The earliest preferred date, 'YYYY-MM-DD' ('9999-12-31' when none): the board's date sort. */
+		earliestDate: text('earliest_date')
+			.notNull()
+			.generatedAlwaysAs(sql`tapline_earliest_date(preferred_windows)`),
 		/** The owner's note to installers (parking, access, anything to know); masked before booking. */
 		ownerNote: text('owner_note'),
 		priceLowCents: integer('price_low_cents'),
@@ -319,7 +346,18 @@ export const job = pgTable(
 	},
 	(t) => [
 		index('job_owner_idx').on(t.ownerId, t.createdAt),
-		index('job_status_lat_lng_idx').on(t.status, t.latitude, t.longitude)
+		index('job_status_lat_lng_idx').on(t.status, t.latitude, t.longitude),
+		// The board's keyset paging on (sort key, id), open jobs only; the geography columns and
+		// their GiST indexes are in the hand-written migration 0013 (see the note above `job`).
+		index('job_open_submitted_idx')
+			.on(t.submittedAt, t.id)
+			.where(sql`status = 'collecting_quotes'`),
+		index('job_open_earliest_date_idx')
+			.on(t.earliestDate, t.id)
+			.where(sql`status = 'collecting_quotes'`),
+		index('job_open_live_quotes_idx')
+			.on(t.liveQuotes, t.id)
+			.where(sql`status = 'collecting_quotes'`)
 	]
 );
 

@@ -5,7 +5,8 @@ import type { RequestHandler } from './$types';
 
 /**
  * The installer's job board as JSON: open jobs offered to the signed-in installer, at their
- * approximate (grid-cell) location, filtered, sorted and paged by cursor. Documented in README.md.
+ * approximate (grid-cell) location, filtered, sorted and paged by cursor, with the map's clusters
+ * when a zoom is given. Never a job's true point. Documented in README.md.
  */
 export const GET: RequestHandler = async ({ url, locals }) => {
 	// A JSON client wants a status code, not the sign-in redirect requireRole gives pages.
@@ -26,6 +27,7 @@ export const GET: RequestHandler = async ({ url, locals }) => {
 		jobs: page.jobs,
 		nextCursor: page.nextCursor,
 		total: page.total,
+		clusters: page.clusters,
 		circle: { ...context.base, radiusKm: context.serviceRadiusKm }
 	});
 };

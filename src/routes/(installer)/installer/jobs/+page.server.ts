@@ -8,7 +8,9 @@ import {
 import type { PageServerLoad } from './$types';
 
 // The board loads in the browser from /api/jobs as the map moves; this first page (from the same
-// query parameters) is what shows before the map is ready and without JavaScript.
+// query parameters) is what shows before the map is ready and without JavaScript. It is one
+// indexed page and nothing more: the total and the map's clusters come with the browser's first
+// request, so the first paint costs the same whatever the size of the market.
 export const load: PageServerLoad = async ({ url }) => {
 	const installer = requireRole('installer');
 	const context = await getInstallerContext(installer.id);
@@ -26,13 +28,13 @@ export const load: PageServerLoad = async ({ url }) => {
 	const parsed = boardQuerySchema.safeParse(raw);
 	const query = parsed.success ? parsed.data : boardQuerySchema.parse({});
 	const [first, fresh] = await Promise.all([
-		searchBoard(context, { ...query, bounds: undefined }),
+		searchBoard(context, { ...query, bounds: undefined, zoom: undefined }, { counted: false }),
 		listNewOfferedJobs(context)
 	]);
 	return {
 		ready: true as const,
 		circle: { ...context.base, radiusKm: context.serviceRadiusKm },
-		initial: first ?? { jobs: [], nextCursor: null, total: 0 },
+		initial: first ?? { jobs: [], nextCursor: null, total: null, clusters: null },
 		query: {
 			bodyStyle: query.bodyStyle ?? '',
 			cameras: query.cameras ?? '',
@@ -43,6 +45,6 @@ export const load: PageServerLoad = async ({ url }) => {
 			dir: query.dir ?? null
 		},
 		badQuery: parsed.success ? null : parsed.error.issues.map((i) => i.message).join('; '),
-		newJobs: fresh.slice(0, 8)
+		newJobs: fresh.jobs
 	};
 };

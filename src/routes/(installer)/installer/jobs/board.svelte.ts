@@ -1,10 +1,11 @@
 /**
- * The job board's state in the browser: filters, sort, the map's bounds and the jobs loaded from
- * /api/jobs. Map moves are debounced, and an answer that arrives after a newer request started is
- * dropped, so a quick pan never leaves stale rows on screen.
+ * The job board's state in the browser: filters, sort, the map's bounds and zoom, the jobs loaded
+ * from /api/jobs and the map's clusters (computed by the server for the whole view). Map moves are
+ * debounced, and an answer that arrives after a newer request started is dropped, so a quick pan
+ * never leaves stale rows on screen.
  */
 import type { MapBounds } from '$lib/components/JobMap.svelte';
-import { BOARD_DEFAULT_DIR, type BoardJob, type BoardSort } from '$lib/board';
+import { BOARD_DEFAULT_DIR, type BoardCluster, type BoardJob, type BoardSort } from '$lib/board';
 import { queryString, sortHref } from '$lib/query';
 
 export interface BoardFilters {
@@ -18,7 +19,9 @@ export interface BoardFilters {
 interface BoardPage {
 	jobs: BoardJob[];
 	nextCursor: string | null;
-	total: number;
+	/** Null when not counted: the server-rendered first page and later pages leave it out. */
+	total: number | null;
+	clusters: BoardCluster[] | null;
 }
 
 /** Waits this long after the map stops moving before asking for jobs. */
@@ -26,7 +29,8 @@ const DEBOUNCE_MS = 350;
 
 export class JobBoard {
 	jobs = $state<BoardJob[]>([]);
-	total = $state(0);
+	total = $state<number | null>(null);
+	clusters = $state<BoardCluster[]>([]);
 	nextCursor = $state<string | null>(null);
 	loading = $state(false);
 	error = $state<string | null>(null);
@@ -43,6 +47,7 @@ export class JobBoard {
 	/** True once the list comes from /api/jobs for the map's view rather than the first page. */
 	fromMap = $state(false);
 	#bounds: MapBounds | null = null;
+	#zoom: number | null = null;
 	#timer: ReturnType<typeof setTimeout> | undefined;
 	#request = 0;
 
@@ -52,6 +57,7 @@ export class JobBoard {
 	) {
 		this.jobs = initial.jobs;
 		this.total = initial.total;
+		this.clusters = initial.clusters ?? [];
 		this.nextCursor = initial.nextCursor;
 		const { sort, dir, ...filters } = query;
 		this.filters = filters;
@@ -77,13 +83,15 @@ export class JobBoard {
 		if (this.filters.unquoted) p.unquoted = '1';
 		p.sort = this.sort;
 		if (this.dir) p.dir = this.dir;
+		// The clusters (and with them the total) come with a first page; a later page is rows only.
 		if (cursor) p.cursor = cursor;
+		else if (this.#zoom !== null) p.zoom = String(this.#zoom);
 		return p;
 	}
 
 	/** The current view as a link's parameters: the map's bounds stay out of links. */
 	#linkParams(): Record<string, string> {
-		const { bounds: _bounds, ...rest } = this.params();
+		const { bounds: _bounds, zoom: _zoom, ...rest } = this.params();
 		return rest;
 	}
 
@@ -112,7 +120,10 @@ export class JobBoard {
 				return;
 			}
 			this.jobs = append ? [...this.jobs, ...(body.jobs ?? [])] : (body.jobs ?? []);
-			this.total = body.total ?? 0;
+			if (!append) {
+				this.total = body.total ?? null;
+				this.clusters = body.clusters ?? [];
+			}
 			this.nextCursor = body.nextCursor ?? null;
 			this.fromMap = this.#bounds !== null;
 		} catch {
@@ -123,8 +134,9 @@ export class JobBoard {
 	}
 
 	/** Called by the map after every pan or zoom. */
-	setBounds(bounds: MapBounds): void {
+	setBounds(bounds: MapBounds, zoom: number): void {
 		this.#bounds = bounds;
+		this.#zoom = zoom;
 		clearTimeout(this.#timer);
 		this.#timer = setTimeout(() => void this.load(), DEBOUNCE_MS);
 	}
