@@ -73,3 +73,19 @@ test('a vetted installer without payouts is asked to set them up, and onboarding
 	await page.goto('/installer');
 	await expect(page.getByTestId('payouts-needed')).toHaveCount(0);
 });
+
+test('an admin must tick "I am sure" before money moves, and the page lists paid bookings or says none', async ({
+	adminPage: page
+}) => {
+	await page.goto('/admin/payments');
+	await expect(page.getByRole('heading', { name: 'Payments' })).toBeVisible();
+	for (const action of ['release', 'refund']) {
+		const res = await page.request.post(`/admin/payments?/${action}`, {
+			form: { bookingId: crypto.randomUUID(), amount: '10.00' },
+			headers: { origin: new URL(page.url()).origin, accept: 'application/json' }
+		});
+		const body = (await res.json()) as { status: number; data: string };
+		expect(body.status, action).toBe(400);
+		expect(body.data, action).toContain('I am sure');
+	}
+});

@@ -24,7 +24,11 @@ export const load: PageServerLoad = async () => {
 	};
 };
 
-const bookingField = z.object({ bookingId: z.uuid() });
+const bookingField = z.object({
+	bookingId: z.uuid(),
+	// Money moves at once: the form asks for a tick first.
+	confirm: z.literal('on', { error: 'Tick "I am sure" first: money moves at once.' })
+});
 const refundFields = bookingField.extend({
 	amount: z
 		.string()
@@ -39,7 +43,9 @@ export const actions = {
 		requireRole('admin');
 		const data = await readFormData(request);
 		const parsed = bookingField.safeParse(data ? Object.fromEntries(data) : {});
-		if (!parsed.success) return fail(400, { problem: 'Choose a booking.' });
+		if (!parsed.success) {
+			return fail(400, { problem: parsed.error.issues[0]?.message ?? 'Choose a booking.' });
+		}
 		const result = await releaseHeldFunds(parsed.data.bookingId);
 		if (!result.ok) return refusalFail(result);
 		redirectWithNotice(
