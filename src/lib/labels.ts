@@ -8,6 +8,7 @@ import { formatDay } from './time';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 // Types only (erased at build): the database enums are the one list of each status.
 import type { Booking, Job, LedgerTransaction, Quote, Role } from './server/db/schema';
+import type { LedgerAccountName, PaymentStep } from './timeline';
 import type {
 	AdminDecision,
 	ChecklistItem,
@@ -227,4 +228,28 @@ export const LEDGER_KIND_LABELS: Record<LedgerTransaction['kind'], string> = {
 	refund: 'Refunded',
 	late_fee: 'Late-cancellation fee to the installer',
 	reversal: 'Correction'
+};
+
+/** A step of a booking's payment, as a line of the admin's booking timeline. */
+export const PAYMENT_STEP_LABELS: Record<PaymentStep, string> = {
+	'checkout-opened': 'Checkout opened',
+	paid: 'Paid into held funds',
+	'refunded-after-lapse': 'Paid after the hold ran out: refunded in full',
+	'release-requested': 'Release of held funds asked for',
+	released: 'Held funds released to the installer'
+};
+
+/** The booking's own lines of the admin's booking timeline. */
+export const BOOKING_STEP_LABELS: Record<'booked' | 'hold-ends', string> = {
+	booked: 'Booked (provisional until paid)',
+	'hold-ends': 'Hold on the slot ends'
+};
+
+/** A ledger account, as the admin's booking timeline names it. */
+export const LEDGER_ACCOUNT_LABELS: Record<LedgerAccountName, string> = {
+	platform_cash: 'Money held at the payment provider',
+	owner_funds_held: 'Owner’s funds held',
+	installer_payable: 'Owed to the installer',
+	fee_revenue: 'Tapline fee',
+	gst_payable: 'GST on the fee'
 };

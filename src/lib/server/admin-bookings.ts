@@ -4,14 +4,26 @@
  * time; the CSV export writes the same rows for the whole range (csv-stringify), so the file and
  * the table never disagree.
  */
-import { and, desc, eq, gte, ilike, lt, or, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, ilike, inArray, lt, or, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { stringify } from 'csv-stringify/sync';
 import { BOOKING_STATUS_LABELS } from '$lib/labels';
 import { titleOrUntitled } from '$lib/posted-job';
 import { formatInZone, localToUtc } from '$lib/time';
+import { bookingEntries, mergeTimeline, paymentEntries, type TimelineEntry } from '$lib/timeline';
 import { db } from './db';
-import { booking, installerProfile, job, quote, user, type Booking } from './db/schema';
+import {
+	booking,
+	installerProfile,
+	job,
+	jobMessage,
+	ledgerEntry,
+	ledgerTransaction,
+	payment,
+	quote,
+	user,
+	type Booking
+} from './db/schema';
 
 /** Bookings on one page of the admin's table. */
 export const BOOKINGS_PAGE_SIZE = 25;
@@ -145,4 +157,149 @@ export async function exportBookingsCsv(query: BookingQuery): Promise<string | n
 	return stringify([[...BOOKING_CSV_COLUMNS], ...rows.map(bookingCsvRecord)], {
 		record_delimiter: 'windows'
 	});
+}
+
+/** One booking for the admin's booking page: its header and its timeline, oldest first. */
+export interface BookingTimeline {
+	booking: {
+		id: string;
+		jobId: string;
+		title: string | null;
+		ownerId: string;
+		ownerName: string;
+		installerId: string;
+		businessName: string;
+		slotStart: Date;
+		slotEnd: Date;
+		status: Booking['status'];
+		totalCents: number;
+		/** Why the last payment attempt failed, if it did (the payment row keeps no time for it). */
+		lastPaymentProblem: string | null;
+		/** Why the last release attempt failed, if it did (no time kept either). */
+		lastReleaseError: string | null;
+	};
+	entries: TimelineEntry[];
+}
+
+/**
+ * A booking and everything the database holds about it in time order: the booking made and its
+ * hold, each step of its payment, each ledger transaction with its entries, and the job's
+ * messages between that owner and installer (as stored: masked at writing when they had to be).
+ * Null when there is no such booking.
+ */
+export async function getBookingTimeline(bookingId: string): Promise<BookingTimeline | null> {
+	const [head] = await db
+		.select({
+			id: booking.id,
+			jobId: booking.jobId,
+			title: job.title,
+			ownerId: booking.ownerId,
+			ownerName: owner.displayName,
+			installerId: booking.installerId,
+			businessName: installerProfile.businessName,
+			slotStart: booking.slotStart,
+			slotEnd: booking.slotEnd,
+			status: booking.status,
+			totalCents: booking.totalCents,
+			createdAt: booking.createdAt,
+			holdExpiresAt: booking.holdExpiresAt
+		})
+		.from(booking)
+		.innerJoin(job, eq(job.id, booking.jobId))
+		.innerJoin(owner, eq(owner.id, booking.ownerId))
+		.innerJoin(installerProfile, eq(installerProfile.userId, booking.installerId))
+		.where(eq(booking.id, bookingId));
+	if (!head) return null;
+
+	const [payments, transactions, messages] = await Promise.all([
+		db
+			.select({
+				createdAt: payment.createdAt,
+				paidAt: payment.paidAt,
+				refundedAfterLapseAt: payment.refundedAfterLapseAt,
+				releaseRequestedAt: payment.releaseRequestedAt,
+				releasedAt: payment.releasedAt,
+				payoutCents: payment.payoutCents,
+				lastProblem: payment.lastProblem,
+				lastReleaseError: payment.lastReleaseError
+			})
+			.from(payment)
+			.where(eq(payment.bookingId, bookingId)),
+		db
+			.select({
+				id: ledgerTransaction.id,
+				kind: ledgerTransaction.kind,
+				memo: ledgerTransaction.memo,
+				createdAt: ledgerTransaction.createdAt
+			})
+			.from(ledgerTransaction)
+			.where(eq(ledgerTransaction.bookingId, bookingId)),
+		db
+			.select({
+				id: jobMessage.id,
+				authorId: jobMessage.authorId,
+				authorName: user.displayName,
+				body: jobMessage.body,
+				masked: jobMessage.masked,
+				createdAt: jobMessage.createdAt
+			})
+			.from(jobMessage)
+			.innerJoin(user, eq(user.id, jobMessage.authorId))
+			.where(and(eq(jobMessage.jobId, head.jobId), eq(jobMessage.installerId, head.installerId)))
+	]);
+	const entries = transactions.length
+		? await db
+				.select({
+					transactionId: ledgerEntry.transactionId,
+					account: ledgerEntry.account,
+					amountCents: ledgerEntry.amountCents
+				})
+				.from(ledgerEntry)
+				.where(
+					inArray(
+						ledgerEntry.transactionId,
+						transactions.map((t) => t.id)
+					)
+				)
+				// Debits first, then credits; the id keeps equal lines in one order.
+				.orderBy(desc(ledgerEntry.amountCents), asc(ledgerEntry.id))
+		: [];
+
+	const paid = payments[0];
+	const { createdAt, holdExpiresAt, ...header } = head;
+	return {
+		booking: {
+			...header,
+			lastPaymentProblem: paid?.lastProblem ?? null,
+			lastReleaseError: paid?.lastReleaseError ?? null
+		},
+		entries: mergeTimeline(
+			bookingEntries({ createdAt, holdExpiresAt }),
+			paid ? paymentEntries(paid) : [],
+			transactions.map((t) => ({
+				kind: 'ledger' as const,
+				key: `ledger:${t.id}`,
+				at: t.createdAt,
+				transactionKind: t.kind,
+				memo: t.memo,
+				entries: entries
+					.filter((e) => e.transactionId === t.id)
+					.map(({ account, amountCents }) => ({ account, amountCents }))
+			})),
+			messages.map((m) => ({
+				kind: 'message' as const,
+				key: `message:${m.id}`,
+				at: m.createdAt,
+				from:
+					m.authorId === head.ownerId
+						? ('owner' as const)
+						: m.authorId === head.installerId
+							? ('installer' as const)
+							: ('someone-else' as const),
+				authorName: m.authorName,
+				body: m.body,
+				masked: m.masked
+			}))
+		)
+	};
 }

@@ -1,0 +1,110 @@
+import { randomUUID } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { getBookingTimeline } from '$lib/server/admin-bookings';
+import { db } from '$lib/server/db';
+import { jobMessage } from '$lib/server/db/schema';
+import { releaseHeldFunds } from '$lib/server/payments';
+import { postJobMessage } from '$lib/server/threads';
+import {
+	bookAndOpenCheckout,
+	onboardInstaller,
+	payWith,
+	startPaymentsWorld,
+	type PaymentsWorld
+} from './payments-helpers';
+
+let world: PaymentsWorld;
+
+beforeAll(async () => {
+	world = await startPaymentsWorld();
+});
+afterAll(() => world.close());
+
+describe('the admin booking timeline', () => {
+	it('merges the booking, its payment, its ledger and the thread with its installer in time order', async () => {
+		const made = await bookAndOpenCheckout(2);
+		const installerId = made.chosen.installerId;
+		await onboardInstaller(installerId);
+		const asked = await postJobMessage(
+			made.job.id,
+			installerId,
+			{ id: made.ownerId, role: 'owner' },
+			'Can you park in the drive? Call me on 0412 345 678'
+		);
+		expect(asked.ok).toBe(true);
+		// A message in the other installer's thread about the same job is not this booking's.
+		const other = made.installers.find((i) => i.id !== installerId)!;
+		await db.insert(jobMessage).values({
+			jobId: made.job.id,
+			installerId: other.id,
+			authorId: other.id,
+			body: 'Not about this booking'
+		});
+		await payWith(world, made.sessionId, '4242424242424242');
+		const released = await releaseHeldFunds(made.bookingId);
+		expect(released.ok).toBe(true);
+
+		const found = await getBookingTimeline(made.bookingId);
+		expect(found).not.toBeNull();
+		const { booking, entries } = found!;
+		expect(booking).toMatchObject({
+			id: made.bookingId,
+			jobId: made.job.id,
+			ownerId: made.ownerId,
+			installerId,
+			status: 'confirmed',
+			totalCents: made.chosen.totalCents
+		});
+
+		// Oldest first, and every entry once.
+		const times = entries.map((e) => e.at.getTime());
+		expect(times).toEqual([...times].sort((a, b) => a - b));
+		expect(new Set(entries.map((e) => e.key)).size).toBe(entries.length);
+		const keys = entries.map((e) => (e.kind === 'ledger' ? `ledger:${e.transactionKind}` : e.key));
+		const messageKey = keys.find((k) => k.startsWith('message:'))!;
+		expect([...keys].sort()).toEqual(
+			[
+				'booked',
+				'checkout-opened',
+				messageKey,
+				'paid',
+				'ledger:payment',
+				'release-requested',
+				'released',
+				'ledger:release',
+				'hold-ends'
+			].sort()
+		);
+		// The order that can be known from the steps themselves: each happened after the one before.
+		const before = (a: string, b: string) => expect(keys.indexOf(a)).toBeLessThan(keys.indexOf(b));
+		before('booked', 'checkout-opened');
+		before('checkout-opened', messageKey);
+		before(messageKey, 'paid');
+		before(messageKey, 'ledger:payment');
+		before('ledger:payment', 'ledger:release');
+		before('paid', 'release-requested');
+		before('release-requested', 'released');
+
+		const message = entries.find((e) => e.kind === 'message')!;
+		expect(message).toMatchObject({ from: 'owner', authorName: expect.any(String) });
+		// Shown as stored: the phone number was hidden when it was written, before payment.
+		if (message.kind !== 'message') throw new Error('not a message');
+		expect(message.body).not.toContain('0412 345 678');
+		expect(message.masked.length).toBeGreaterThan(0);
+
+		const payment = entries.find((e) => e.kind === 'ledger' && e.transactionKind === 'payment');
+		if (payment?.kind !== 'ledger') throw new Error('no payment in the ledger');
+		expect(payment.entries).toEqual([
+			{ account: 'platform_cash', amountCents: made.chosen.totalCents },
+			{ account: 'owner_funds_held', amountCents: -made.chosen.totalCents }
+		]);
+		const release = entries.find((e) => e.kind === 'ledger' && e.transactionKind === 'release');
+		if (release?.kind !== 'ledger') throw new Error('no release in the ledger');
+		expect(release.entries.reduce((sum, e) => sum + e.amountCents, 0)).toBe(0);
+		expect(release.entries.some((e) => e.account === 'installer_payable')).toBe(true);
+	});
+
+	it('is null for a booking that does not exist', async () => {
+		expect(await getBookingTimeline(randomUUID())).toBeNull();
+	});
+});
