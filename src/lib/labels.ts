@@ -253,3 +253,16 @@ export const LEDGER_ACCOUNT_LABELS: Record<LedgerAccountName, string> = {
 	fee_revenue: 'Tapline fee',
 	gst_payable: 'GST on the fee'
 };
+
+/** The payment provider's events Tapline acts on, as lines of the admin's booking timeline. */
+const PAYMENT_EVENT_LABELS: Record<string, string> = {
+	'checkout.session.completed': 'Provider: checkout completed',
+	'payment_intent.succeeded': 'Provider: payment succeeded',
+	'payment_intent.payment_failed': 'Provider: payment failed',
+	'charge.refunded': 'Provider: charge refunded'
+};
+
+/** A payment provider's event in words; one Tapline only records says which it was. */
+export function paymentEventLabel(type: string): string {
+	return PAYMENT_EVENT_LABELS[type] ?? `Provider: other event (${type})`;
+}

@@ -42,10 +42,16 @@ describe('mergeTimeline', () => {
 		expect(merged.map((e) => e.key)).toEqual(['m1', 'booked', 't1', 'hold-ends', 'm2']);
 	});
 
-	it('breaks ties at one instant by kind (booking, payment, ledger, message), then by key', () => {
+	it('breaks ties at one instant by kind (booking, provider event, payment, ledger, message), then by key', () => {
 		const same = '2026-12-01T02:00:00Z';
 		const entries = [
 			message('b-message', same),
+			{
+				kind: 'provider-event' as const,
+				key: 'event:evt_1',
+				at: at(same),
+				type: 'charge.refunded'
+			},
 			ledger('z-ledger', same),
 			ledger('a-ledger', same),
 			...paymentEntries({
@@ -60,6 +66,7 @@ describe('mergeTimeline', () => {
 		];
 		const expected = [
 			'booked',
+			'event:evt_1',
 			'checkout-opened',
 			'a-ledger',
 			'z-ledger',

@@ -2,7 +2,8 @@
  * A booking's timeline for admins: what the booking, its payment, its ledger and the job's
  * messages between its owner and installer say happened, merged into one list in time order.
  * Bookings keep no history of status changes, so only what has a time of its own is an entry:
- * the booking made, the end of its hold, each payment step, each ledger transaction, each message.
+ * the booking made, the end of its hold, each payment step, each event from the payment provider
+ * about it, each ledger transaction, each message.
  */
 import type { LedgerTransaction } from './server/db/schema';
 
@@ -18,6 +19,7 @@ export type LedgerAccountName =
 export type TimelineEntry =
 	| { kind: 'booking'; key: string; at: Date; step: 'booked' | 'hold-ends' }
 	| { kind: 'payment'; key: string; at: Date; step: PaymentStep; amountCents: number | null }
+	| { kind: 'provider-event'; key: string; at: Date; type: string }
 	| {
 			kind: 'ledger';
 			key: string;
@@ -37,15 +39,16 @@ export type TimelineEntry =
 	  };
 
 /**
- * At one instant, the order that reads as cause before effect: the booking, then its payment,
- * then the ledger lines the payment wrote (both are written in one transaction, so they often
- * share a timestamp), then messages.
+ * At one instant, the order that reads as cause before effect: the booking, the provider's event,
+ * the payment step it caused, then the ledger lines written with it (all in one transaction, so
+ * they often share a timestamp), then messages.
  */
 const KIND_ORDER: Record<TimelineEntry['kind'], number> = {
 	booking: 0,
-	payment: 1,
-	ledger: 2,
-	message: 3
+	'provider-event': 1,
+	payment: 2,
+	ledger: 3,
+	message: 4
 };
 
 /** Orders two entries by time, then kind (KIND_ORDER), then key: never a tie for distinct keys. */

@@ -60,7 +60,9 @@ describe('the admin booking timeline', () => {
 		const times = entries.map((e) => e.at.getTime());
 		expect(times).toEqual([...times].sort((a, b) => a - b));
 		expect(new Set(entries.map((e) => e.key)).size).toBe(entries.length);
-		const keys = entries.map((e) => (e.kind === 'ledger' ? `ledger:${e.transactionKind}` : e.key));
+		const keys = entries
+			.filter((e) => e.kind !== 'provider-event')
+			.map((e) => (e.kind === 'ledger' ? `ledger:${e.transactionKind}` : e.key));
 		const messageKey = keys.find((k) => k.startsWith('message:'))!;
 		expect([...keys].sort()).toEqual(
 			[
@@ -84,6 +86,15 @@ describe('the admin booking timeline', () => {
 		before('ledger:payment', 'ledger:release');
 		before('paid', 'release-requested');
 		before('release-requested', 'released');
+
+		// The provider's events about this booking, recorded as the webhook took them: the
+		// payment's among them, after the message and before the release was asked for.
+		const events = entries.flatMap((e, i) => (e.kind === 'provider-event' ? [{ ...e, i }] : []));
+		const paidEvent = events.find((e) => e.type === 'checkout.session.completed');
+		expect(paidEvent, JSON.stringify(events.map((e) => e.type))).toBeTruthy();
+		const at = (key: string) => entries.findIndex((e) => e.key === key);
+		expect(paidEvent!.i).toBeGreaterThan(at(messageKey));
+		expect(paidEvent!.i).toBeLessThan(at('release-requested'));
 
 		const message = entries.find((e) => e.kind === 'message')!;
 		expect(message).toMatchObject({ from: 'owner', authorName: expect.any(String) });

@@ -20,6 +20,7 @@ import {
 	ledgerEntry,
 	ledgerTransaction,
 	payment,
+	paymentEvent,
 	quote,
 	user,
 	type Booking
@@ -183,7 +184,7 @@ export interface BookingTimeline {
 
 /**
  * A booking and everything the database holds about it in time order: the booking made and its
- * hold, each step of its payment, each ledger transaction with its entries, and the job's
+ * hold, each step of its payment, each provider event recorded for it, each ledger transaction with its entries, and the job's
  * messages between that owner and installer (as stored: masked at writing when they had to be).
  * Null when there is no such booking.
  */
@@ -211,7 +212,7 @@ export async function getBookingTimeline(bookingId: string): Promise<BookingTime
 		.where(eq(booking.id, bookingId));
 	if (!head) return null;
 
-	const [payments, transactions, messages] = await Promise.all([
+	const [payments, events, transactions, messages] = await Promise.all([
 		db
 			.select({
 				createdAt: payment.createdAt,
@@ -225,6 +226,14 @@ export async function getBookingTimeline(bookingId: string): Promise<BookingTime
 			})
 			.from(payment)
 			.where(eq(payment.bookingId, bookingId)),
+		db
+			.select({
+				eventId: paymentEvent.eventId,
+				type: paymentEvent.type,
+				processedAt: paymentEvent.processedAt
+			})
+			.from(paymentEvent)
+			.where(eq(paymentEvent.bookingId, bookingId)),
 		db
 			.select({
 				id: ledgerTransaction.id,
@@ -276,6 +285,12 @@ export async function getBookingTimeline(bookingId: string): Promise<BookingTime
 		entries: mergeTimeline(
 			bookingEntries({ createdAt, holdExpiresAt }),
 			paid ? paymentEntries(paid) : [],
+			events.map((e) => ({
+				kind: 'provider-event' as const,
+				key: `event:${e.eventId}`,
+				at: e.processedAt,
+				type: e.type
+			})),
 			transactions.map((t) => ({
 				kind: 'ledger' as const,
 				key: `ledger:${t.id}`,

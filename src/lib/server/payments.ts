@@ -200,9 +200,17 @@ export async function receivePaymentWebhook(
 		return { status: 400, message: err instanceof Error ? err.message : 'Bad signature' };
 	}
 	const processed = await withMail(async (tx, mail) => {
+		const about = bookingIdOf(event);
 		const [fresh] = await tx
 			.insert(paymentEvent)
-			.values({ eventId: event.id, type: event.type })
+			.values({
+				eventId: event.id,
+				type: event.type,
+				// Only a booking that exists: an event about anything else is still recorded.
+				bookingId: about
+					? sql`(select ${booking.id} from ${booking} where ${booking.id} = ${about})`
+					: null
+			})
 			.onConflictDoNothing()
 			.returning({ eventId: paymentEvent.eventId });
 		if (!fresh) return false;
@@ -210,6 +218,15 @@ export async function receivePaymentWebhook(
 		return true;
 	});
 	return { status: 200, message: processed ? 'processed' : 'already processed' };
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** The booking an event's object names in its metadata (as Tapline sets it), if it is a UUID. */
+function bookingIdOf(event: Stripe.Event): string | null {
+	const object = event.data.object as { metadata?: Record<string, string> | null };
+	const id = object.metadata?.booking_id;
+	return id && UUID.test(id) ? id : null;
 }
 
 async function processEvent(tx: Tx, mail: Mail, event: Stripe.Event, now: Date): Promise<void> {

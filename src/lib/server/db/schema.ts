@@ -583,11 +583,17 @@ export const payment = pgTable('payment', {
 });
 
 /** Provider events already processed; the primary key makes each event id count once. */
-export const paymentEvent = pgTable('payment_event', {
-	eventId: text('event_id').primaryKey(),
-	type: text('type').notNull(),
-	processedAt: createdAt()
-});
+export const paymentEvent = pgTable(
+	'payment_event',
+	{
+		eventId: text('event_id').primaryKey(),
+		type: text('type').notNull(),
+		/** The booking the event is about (its object's metadata), when that booking exists. */
+		bookingId: uuid('booking_id').references(() => booking.id),
+		processedAt: createdAt()
+	},
+	(t) => [index('payment_event_booking_idx').on(t.bookingId, t.processedAt)]
+);
 
 /** Ledger accounts (debits positive, credits negative). */
 export const ledgerAccount = pgEnum('ledger_account', [
