@@ -32,11 +32,20 @@ export const ACCOUNT_STANDING_LABELS: Record<'active' | 'suspended', string> = {
 	suspended: 'Suspended'
 };
 
+/** The market settings, as the admin's settings page and its audit trail name them. */
+export const MARKET_SETTING_LABELS: Record<string, string> = {
+	feePercentBasisPoints: "Tapline's fee",
+	feeMinimumCents: 'Minimum fee',
+	lateCancelFeeCents: 'Late-cancellation fee',
+	minPublicLiabilityCents: 'Minimum public liability cover'
+};
+
 /** The admin actions the account audit trail records. */
 export const ADMIN_ACTION_LABELS: Record<string, string> = {
 	suspend: 'Suspended the account',
 	reinstate: 'Lifted the suspension',
-	'force-password-reset': 'Asked for a new password'
+	'force-password-reset': 'Asked for a new password',
+	settings: 'Changed the market settings'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {

@@ -88,7 +88,9 @@ test("an admin's pages fit a 360 px phone", async ({ page }) => {
 		'/admin/users',
 		account,
 		'/account',
-		'/admin/payments'
+		'/admin/payments',
+		'/admin/settings',
+		'/admin/bookings'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });

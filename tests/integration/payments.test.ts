@@ -26,7 +26,20 @@ import { reconcileWithProvider } from '$lib/server/receipts';
 import { stripe, transferGroupOf } from '$lib/server/stripe';
 import { submitQuote } from '$lib/server/quotes';
 import { PAYOUTS_NEEDED_TEXT } from '$lib/labels';
-import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
+import {
+	ADELAIDE,
+	goodQuote,
+	makeInstaller,
+	makeOpenJob,
+	makeUser,
+	pricedParts
+} from './matching-helpers';
+import {
+	defaultMarketSettings,
+	getMarketSettings,
+	updateMarketSettings
+} from '$lib/server/settings';
+import { adminAudit } from '$lib/server/db/schema';
 import {
 	bookAndOpenCheckout,
 	onboardInstaller,
@@ -454,5 +467,46 @@ describe('the ledger', () => {
 		const r = await reconcileWithProvider();
 		expect(r.ledgerCashCents).toBeGreaterThan(0);
 		expect(r.driftCents).toBe(0);
+	});
+});
+
+describe('market settings an admin changes', () => {
+	it('are audited, and the next release and late cancellation use them', async () => {
+		const admin = await makeUser('owner', 'settings-admin');
+		const start = await getMarketSettings();
+		expect(start).toEqual(defaultMarketSettings());
+		const next = {
+			...start,
+			feePercentBasisPoints: 2000,
+			feeMinimumCents: 3000,
+			lateCancelFeeCents: 8000
+		};
+		const saved = await updateMarketSettings(admin.id, next, 'Trial of a higher fee');
+		expect(saved.changed.sort()).toEqual(
+			['feeMinimumCents', 'feePercentBasisPoints', 'lateCancelFeeCents'].sort()
+		);
+		expect((await updateMarketSettings(admin.id, next, 'Same again')).changed).toEqual([]);
+		const [entry] = await db
+			.select()
+			.from(adminAudit)
+			.where(and(eq(adminAudit.actorId, admin.id), eq(adminAudit.action, 'settings')));
+		expect(entry?.before).toMatchObject({ feePercentBasisPoints: start.feePercentBasisPoints });
+		expect(entry?.after).toMatchObject({ feePercentBasisPoints: 2000, lateCancelFeeCents: 8000 });
+		try {
+			const released = await paidBooking();
+			const total = released.chosen.totalCents;
+			expect((await releaseHeldFunds(released.bookingId)).ok).toBe(true);
+			// The fee rule with the new settings: 20 %, at least $30.00.
+			const fee = Math.max(3000, Math.round(total / 5));
+			expect((await paymentRow(released.bookingId)).feeCents).toBe(fee);
+			const late = await paidBooking();
+			const b = await bookingRow(late.bookingId);
+			const at = new Date(b.slotStart.getTime() - 3_600_000);
+			const result = await cancelPaidBooking(late.bookingId, 'owner', late.ownerId, at);
+			expect(result.ok && result.lateFeeCents).toBe(8000);
+		} finally {
+			await updateMarketSettings(admin.id, start, 'Back to the starting values');
+		}
+		expect(await getMarketSettings()).toEqual(start);
 	});
 });

@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startS3Fake } from '../../local-fakes/s3';
 import { db } from '$lib/server/db';
 import { getObject } from '$lib/server/files/storage';
-import { minCoverCents } from '$lib/server/vetting';
+import { getMarketSettings } from '$lib/server/settings';
 import { installerDocument, installerHours, installerProfile } from '$lib/server/db/schema';
 import {
 	approvalProblems,
@@ -75,7 +75,7 @@ describe('the demo data obeys the vetting rules', () => {
 					insuranceExpiresOn: profile.insuranceExpiresOn,
 					documentKinds,
 					today,
-					minCoverCents: minCoverCents()
+					minCoverCents: (await getMarketSettings()).minPublicLiabilityCents
 				}),
 				name
 			).toEqual([]);

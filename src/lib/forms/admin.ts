@@ -48,3 +48,34 @@ export const bookingQuerySchema = z.object({
 	q: textField().max(100).catch(''),
 	page: z.coerce.number().int().min(1).max(100_000).catch(1)
 });
+
+/**
+ * The market settings as an admin types them (percent and dollars); the server keeps basis
+ * points and cents. Bounds are Tapline's own sanity limits, said in each message.
+ */
+export const marketSettingsSchema = z.object({
+	feePercent: z
+		.number({ error: 'Enter the fee as a percentage, e.g. 10' })
+		.min(0, { error: 'The fee cannot be negative' })
+		.max(30, { error: 'Keep the fee at 30 % or less' })
+		.multipleOf(0.01, { error: 'Use at most two decimals, e.g. 9.5' }),
+	feeMinimumDollars: z
+		.number({ error: 'Enter the minimum fee in dollars' })
+		.min(0, { error: 'The minimum cannot be negative' })
+		.max(500, { error: 'Keep the minimum fee at $500 or less' })
+		.multipleOf(0.01, { error: 'Use dollars and cents, e.g. 15.00' }),
+	lateCancelFeeDollars: z
+		.number({ error: 'Enter the late-cancellation fee in dollars' })
+		.min(0, { error: 'The fee cannot be negative' })
+		.max(1000, { error: 'Keep the late-cancellation fee at $1,000 or less' })
+		.multipleOf(0.01, { error: 'Use dollars and cents, e.g. 50.00' }),
+	minCoverDollars: z
+		.number({ error: 'Enter the minimum cover in dollars' })
+		.int({ error: 'Enter whole dollars' })
+		.min(1_000_000, { error: 'The minimum cover must be at least $1,000,000' })
+		.max(20_000_000, { error: 'Keep the minimum cover at $20,000,000 or less' }),
+	reason: textField({ error: 'Say why, in a few words' })
+		.trim()
+		.min(5, { error: 'Say why, in a few words (at least 5 characters)' })
+		.max(300, { error: 'Keep the reason under 300 characters' })
+});

@@ -33,15 +33,8 @@ import { heldCents, postLedgerTransaction } from './ledger';
 import { appUrl } from './mail/app-url';
 import { withMail, type Mail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
-import {
-	feeSettings,
-	isProviderOutage,
-	lateFeeCents,
-	stripe,
-	Stripe,
-	transferGroupOf,
-	webhookSecret
-} from './stripe';
+import { isProviderOutage, stripe, Stripe, transferGroupOf, webhookSecret } from './stripe';
+import { feeOf, getMarketSettings } from './settings';
 
 /** What starting a payment gives the booking page. */
 export type HeldFundsStart =
@@ -572,7 +565,7 @@ export async function releaseHeldFunds(
 			if (!installer.payoutAccountId || !installer.payoutsEnabled) {
 				return refuse(409, 'The installer has not finished setting up payouts.');
 			}
-			const split = releaseSplit(held, feeSettings());
+			const split = releaseSplit(held, feeOf(await getMarketSettings(tx)));
 			let transferId: string | null = null;
 			if (split.payoutCents > 0) {
 				const transfer = await stripe().transfers.create(
@@ -752,7 +745,7 @@ export async function cancelPaidBooking(
 				at: now,
 				slotStart: b.slotStart,
 				heldCents: held,
-				lateFeeCents: lateFeeCents()
+				lateFeeCents: (await getMarketSettings(tx)).lateCancelFeeCents
 			});
 			if (settlement.refundCents > 0) {
 				await refundInTx(

@@ -8,7 +8,8 @@ import { releaseSplit } from '$lib/fees';
 import { db } from './db';
 import { booking, installerProfile, job, payment, quote, user } from './db/schema';
 import { accountBalance, heldCents, listBookingLedger } from './ledger';
-import { feeSettings, stripe } from './stripe';
+import { stripe } from './stripe';
+import { feeOf, getMarketSettings } from './settings';
 
 /** A booking's payment as its owner or installer sees it, or null when it is not theirs. */
 async function bookingMoney(bookingId: string, who: { ownerId?: string; installerId?: string }) {
@@ -83,7 +84,7 @@ export async function getPayoutStatement(bookingId: string, installerId: string)
 				payoutCents: p.payoutCents ?? 0
 			}
 		: money.heldCents > 0
-			? releaseSplit(money.heldCents, feeSettings())
+			? releaseSplit(money.heldCents, feeOf(await getMarketSettings()))
 			: null;
 	return { ...money, released, split };
 }

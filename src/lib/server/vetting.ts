@@ -16,13 +16,11 @@ import {
 	sql,
 	type SQL
 } from 'drizzle-orm';
-import { env } from '$env/dynamic/private';
 import { isValidAbn } from '$lib/abn';
 import {
 	allowedDecisions,
 	approvalProblems,
 	DECISIONS_NEEDING_MESSAGE,
-	DEFAULT_MIN_PUBLIC_LIABILITY_CENTS,
 	expiryStep,
 	insuranceProblems,
 	localDate,
@@ -51,15 +49,8 @@ import { appUrl } from './mail/app-url';
 import { withMail, type Mail } from './mail/outbox';
 import { titleOrUntitled } from '$lib/posted-job';
 import { refuse, type Refusal } from './refusal';
+import { getMarketSettings } from './settings';
 import type { EmailTemplate, VettingMailData } from './mail/templates';
-
-/** Smallest accepted public liability cover, from MIN_PUBLIC_LIABILITY_CENTS or the default. */
-export function minCoverCents(): number {
-	const configured = Number(env.MIN_PUBLIC_LIABILITY_CENTS);
-	return Number.isSafeInteger(configured) && configured > 0
-		? configured
-		: DEFAULT_MIN_PUBLIC_LIABILITY_CENTS;
-}
 
 const statusPageUrl = () => appUrl('/installer');
 
@@ -184,7 +175,7 @@ export async function decideApplication(input: DecisionInput): Promise<VettingOu
 			insuranceExpiresOn: profile.insuranceExpiresOn,
 			documentKinds: await documentKinds(tx, input.installerId),
 			today: localDate(new Date(), profile.timeZone),
-			minCoverCents: minCoverCents()
+			minCoverCents: (await getMarketSettings(tx)).minPublicLiabilityCents
 		};
 		if (input.decision === 'approve') {
 			const problems = approvalProblems(input.checklist, facts);
@@ -344,7 +335,7 @@ export async function getApplicationForReview(installerId: string) {
 		hours,
 		decisions: allowedDecisions(stage, paused),
 		today: localDate(new Date(), row.profile.timeZone),
-		minCoverCents: minCoverCents(),
+		minCoverCents: (await getMarketSettings()).minPublicLiabilityCents,
 		abnPassesCheck: row.profile.abn ? isValidAbn(row.profile.abn) : false
 	};
 }

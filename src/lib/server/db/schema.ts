@@ -178,6 +178,18 @@ export const installerDocument = pgTable(
 );
 
 /**
+ * The market's settings an admin may change (Tapline's fee and its minimum, the late-cancellation
+ * fee, the minimum public liability cover), one row per setting that differs from its default;
+ * whole numbers (cents or basis points). Changes are audited in admin_audit.
+ */
+export const marketSetting = pgTable('market_setting', {
+	key: text('key').primaryKey(),
+	value: integer('value').notNull(),
+	updatedBy: text('updated_by').references(() => user.id),
+	updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+});
+
+/**
  * Every admin action on an account (suspend, reinstate, force a password reset): who, when, what,
  * and the account's standing before and after. Append-only: a trigger (migration 0006) refuses
  * UPDATE, DELETE and TRUNCATE, as for vetting_event.
