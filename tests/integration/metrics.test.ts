@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
-import { booking, job, quote } from '$lib/server/db/schema';
-import { getMarketMetrics } from '$lib/server/metrics';
+import { booking, installerProfile, job, quote } from '$lib/server/db/schema';
+import { eq } from 'drizzle-orm';
+import { getAdminQueueCounts, getMarketMetrics } from '$lib/server/metrics';
 import { makeInstaller, makeUser } from './matching-helpers';
 
 const HOUR = 3_600_000;
@@ -156,5 +157,18 @@ describe('the marketplace metrics of the admin overview', () => {
 		expect(m.quotesPerJob).toBeNull();
 		expect(m.grossBookingCents).toBe(0);
 		expect(m.suburbs).toEqual([]);
+	});
+
+	it('counts, beside Vetting, only applications sent and waiting for an admin', async () => {
+		const before = (await getAdminQueueCounts()).vetting;
+		await makeInstaller({ status: 'applied' });
+		const draft = await makeInstaller({ status: 'applied' });
+		// A draft has the default standing but was never sent: it waits for nobody.
+		await db
+			.update(installerProfile)
+			.set({ submittedAt: null })
+			.where(eq(installerProfile.userId, draft.id));
+		await makeInstaller({ status: 'waiting_on_installer' });
+		expect((await getAdminQueueCounts()).vetting).toBe(before + 1);
 	});
 });

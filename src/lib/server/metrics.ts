@@ -46,9 +46,15 @@ export async function getAdminQueueCounts(): Promise<{ vetting: number }> {
 	const [waiting] = await db
 		.select({ n: count() })
 		.from(installerProfile)
-		// A closed account's application waits for nobody (as in the vetting queue).
+		// As the vetting queue counts: sent (a draft waits for nobody) and not a closed account.
 		.innerJoin(user, eq(user.id, installerProfile.userId))
-		.where(and(eq(installerProfile.vettingStatus, 'applied'), isNull(user.deletedAt)));
+		.where(
+			and(
+				eq(installerProfile.vettingStatus, 'applied'),
+				isNotNull(installerProfile.submittedAt),
+				isNull(user.deletedAt)
+			)
+		);
 	return { vetting: waiting?.n ?? 0 };
 }
 
