@@ -168,7 +168,7 @@ describe('the marketplace metrics of the admin overview', () => {
 			.update(installerProfile)
 			.set({ submittedAt: null })
 			.where(eq(installerProfile.userId, draft.id));
-		await makeInstaller({ status: 'waiting_on_installer' });
+		await makeInstaller({ status: 'approved' });
 		expect((await getAdminQueueCounts()).vetting).toBe(before + 1);
 	});
 });
