@@ -37,7 +37,9 @@ export const MARKET_SETTING_LABELS: Record<string, string> = {
 	feePercentBasisPoints: "Tapline's fee",
 	feeMinimumCents: 'Minimum fee',
 	lateCancelFeeCents: 'Late-cancellation fee',
-	minPublicLiabilityCents: 'Minimum public liability cover'
+	minPublicLiabilityCents: 'Minimum public liability cover',
+	confirmationWindowHours: 'Confirmation window',
+	labourRateCentsPerHour: 'Labour rate guide'
 };
 
 /** The admin actions the account audit trail records. */

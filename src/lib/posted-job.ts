@@ -4,6 +4,7 @@
  */
 import { computeScope, type JobRequestInput, type ScopeSheet } from './scope';
 import { parkingSummary } from './scope/parking';
+import type { Market } from './scope/price';
 import { requiredSkills } from './matching';
 
 /** The name a job goes by before its car is known (and in e-mails about it). */
@@ -41,8 +42,8 @@ export function scopeSummary(scope: ScopeSheet): string {
  * neither the request nor the scope) and the price guide.
  * @param request the whole, validated request
  */
-export function postedJobColumns(request: JobRequestInput) {
-	const scope = computeScope(request);
+export function postedJobColumns(request: JobRequestInput, market?: Market) {
+	const scope = computeScope(request, market);
 	return {
 		request,
 		scope,

@@ -6,7 +6,7 @@ import { eq } from 'drizzle-orm';
 import { startStripeFake, type StripeFake, type WebhookDelivery } from '../../local-fakes/stripe';
 import { bookQuote } from '$lib/server/bookings';
 import { db } from '$lib/server/db';
-import { payment, quote } from '$lib/server/db/schema';
+import { booking, payment, quote } from '$lib/server/db/schema';
 import { receivePaymentWebhook, startHeldFundsPayment } from '$lib/server/payments';
 import { startPayoutOnboarding } from '$lib/server/payouts';
 import { submitQuote } from '$lib/server/quotes';
@@ -145,4 +145,17 @@ export async function onboardInstaller(installerId: string) {
 	});
 	if (res.status !== 303) throw new Error(`onboarding answered ${String(res.status)}`);
 	return res.headers.get('location');
+}
+
+/** The published test card that always succeeds. */
+export const SUCCESS_CARD = '4242424242424242';
+
+/** A paid, confirmed booking whose installer has onboarded in the fake (stage 'to fit'). */
+export async function paidBookingIn(world: PaymentsWorld, count = 1, now = new Date()) {
+	const made = await bookAndOpenCheckout(count, now);
+	await onboardInstaller(made.chosen.installerId);
+	await payWith(world, made.sessionId, SUCCESS_CARD);
+	const [row] = await db.select().from(booking).where(eq(booking.id, made.bookingId));
+	if (row?.status !== 'confirmed') throw new Error(`booking not confirmed: ${String(row?.status)}`);
+	return made;
 }

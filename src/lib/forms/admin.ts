@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import type { Booking } from '$lib/server/db/schema';
 import { isCalendarDate, textField } from './fields';
+import { MAX_CONFIRMATION_WINDOW_HOURS, MIN_CONFIRMATION_WINDOW_HOURS } from '$lib/lifecycle';
 
 export const USER_ROLES = ['owner', 'installer', 'admin'] as const;
 export const ACCOUNT_STANDINGS = ['active', 'suspended'] as const;
@@ -74,6 +75,20 @@ export const marketSettingsSchema = z.object({
 		.int({ error: 'Enter whole dollars' })
 		.min(1_000_000, { error: 'The minimum cover must be at least $1,000,000' })
 		.max(20_000_000, { error: 'Keep the minimum cover at $20,000,000 or less' }),
+	confirmationWindowHours: z
+		.number({ error: 'Enter the window in hours, e.g. 72' })
+		.int({ error: 'Enter whole hours' })
+		.min(MIN_CONFIRMATION_WINDOW_HOURS, {
+			error: `Give owners at least ${String(MIN_CONFIRMATION_WINDOW_HOURS)} hours`
+		})
+		.max(MAX_CONFIRMATION_WINDOW_HOURS, {
+			error: `Keep the window at ${String(MAX_CONFIRMATION_WINDOW_HOURS)} hours (14 days) or less`
+		}),
+	labourRateDollars: z
+		.number({ error: 'Enter the labour rate in dollars per hour' })
+		.min(30, { error: 'The labour rate guide must be at least $30 an hour' })
+		.max(400, { error: 'Keep the labour rate guide at $400 an hour or less' })
+		.multipleOf(0.01, { error: 'Use dollars and cents, e.g. 110.00' }),
 	reason: textField({ error: 'Say why, in a few words' })
 		.trim()
 		.min(5, { error: 'Say why, in a few words (at least 5 characters)' })

@@ -12,7 +12,8 @@ export const QUEUES = {
 	newJobDigest: 'new-job-digest',
 	quoteDigest: 'quote-digest',
 	bookingHoldLapse: 'booking-hold-lapse',
-	heldFundsRelease: 'held-funds-release'
+	heldFundsRelease: 'held-funds-release',
+	bookingAutoConfirm: 'booking-auto-confirm'
 } as const;
 
 /**

@@ -3,6 +3,7 @@
  * is in, withdrawing, listing. Every change locks the job row and re-checks ownership and state in
  * one transaction, so nothing is half-written and two tabs cannot interleave.
  */
+import { getMarketSettings, scopeMarketOf } from './settings';
 import { and, asc, count, desc, eq, sql, type SQL } from 'drizzle-orm';
 import { formatInZone } from '$lib/time';
 import { preferredWindowText } from '$lib/labels';
@@ -143,7 +144,7 @@ export async function postJob(
 			.update(job)
 			.set({
 				status: 'collecting_quotes',
-				...postedJobColumns(request),
+				...postedJobColumns(request, scopeMarketOf(await getMarketSettings(tx))),
 				draftStep: 'review',
 				submittedAt: locked.submittedAt ?? now,
 				updatedAt: now

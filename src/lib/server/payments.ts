@@ -739,6 +739,12 @@ export async function cancelPaidBooking(
 				return refuse(409, 'Only a paid, confirmed booking can be cancelled here.');
 			}
 			if (paid.releasedAt) return refuse(409, 'This booking has been paid out already.');
+			if (b.stage !== 'to_fit') {
+				return refuse(
+					409,
+					'The fit has been reported, so the booking can no longer be cancelled: confirm the work or raise a problem instead.'
+				);
+			}
 			const held = await heldCents(tx, bookingId);
 			const settlement = cancellationSettlement({
 				cancelledBy: by,

@@ -12,12 +12,15 @@
  * | `new-job-digest`     | daily 07:00 Adelaide        | one new-job e-mail a day per installer        |
  * | `quote-digest`       | debounced per job; sweep 10 min | one owner e-mail per burst of quotes      |
  * | `booking-hold-lapse` | every minute                | lapses provisional bookings past their hold   |
+ * | `held-funds-release` | every 5 minutes             | retries releases the provider did not take    |
+ * | `booking-auto-confirm` | every minute              | confirms work whose owner's window closed     |
  */
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 import { QUEUES, QUOTE_DIGEST_SECONDS, setBoss } from './boss';
 import { retryPendingReleases } from './payments';
 import { lapseExpiredHolds } from './bookings';
+import { confirmOverdueWork } from './completion';
 import { deliverEmail, listStrandedEmails } from './mail/outbox';
 import { sendNewJobDigests } from './matching';
 import { listJobsWithUnsentQuotes, sendOwnerQuoteDigest } from './quotes';
@@ -92,7 +95,8 @@ async function registerWork(boss: PgBoss): Promise<void> {
 		QUEUES.newJobDigest,
 		QUEUES.quoteDigest,
 		QUEUES.bookingHoldLapse,
-		QUEUES.heldFundsRelease
+		QUEUES.heldFundsRelease,
+		QUEUES.bookingAutoConfirm
 	]) {
 		await boss.createQueue(name, { name, retryLimit: 3, retryDelay: 60 });
 	}
@@ -127,6 +131,12 @@ async function registerWork(boss: PgBoss): Promise<void> {
 	await boss.schedule(QUEUES.heldFundsRelease, '*/5 * * * *');
 	await boss.work(QUEUES.heldFundsRelease, async () => {
 		await retryPendingReleases();
+	});
+	// Confirmation: work whose owner did not answer within the window confirms itself within a
+	// minute of the deadline; the row lock and the stage check make a second worker a no-op.
+	await boss.schedule(QUEUES.bookingAutoConfirm, '* * * * *');
+	await boss.work(QUEUES.bookingAutoConfirm, async () => {
+		await confirmOverdueWork();
 	});
 }
 

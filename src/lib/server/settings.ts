@@ -1,13 +1,17 @@
 /**
  * The market's settings: Tapline's fee (a percentage with a minimum), the late-cancellation fee
- * paid to the installer and the minimum public liability cover vetting asks for. Each starts from
- * the environment (TAPLINE_FEE_PERCENT, TAPLINE_FEE_MINIMUM_CENTS, TAPLINE_LATE_CANCEL_FEE_CENTS,
- * MIN_PUBLIC_LIABILITY_CENTS) or Tapline's default, and an admin may override it in
+ * paid to the installer, the minimum public liability cover vetting asks for, the owner's
+ * confirmation window after a fit report and the labour rate guide the scope sheet prices with.
+ * Each starts from the environment (TAPLINE_FEE_PERCENT, TAPLINE_FEE_MINIMUM_CENTS,
+ * TAPLINE_LATE_CANCEL_FEE_CENTS, MIN_PUBLIC_LIABILITY_CENTS, TAPLINE_CONFIRMATION_WINDOW_HOURS) or
+ * Tapline's default, and an admin may override it in
  * `market_setting`. The payment and vetting maths read them here, inside their own transaction.
  * Every change is one transaction with its `admin_audit` row (before and after).
  */
 import { inArray } from 'drizzle-orm';
 import { DEFAULT_MIN_PUBLIC_LIABILITY_CENTS } from '$lib/vetting';
+import { DEFAULT_CONFIRMATION_WINDOW_HOURS } from '$lib/lifecycle';
+import { ADELAIDE_MARKET, type Market } from '$lib/scope/price';
 import type { FeeSettings } from '$lib/fees';
 import { env } from '$env/dynamic/private';
 import { db, type Db, type Tx } from './db';
@@ -18,7 +22,9 @@ export const MARKET_SETTING_KEYS = [
 	'feePercentBasisPoints',
 	'feeMinimumCents',
 	'lateCancelFeeCents',
-	'minPublicLiabilityCents'
+	'minPublicLiabilityCents',
+	'confirmationWindowHours',
+	'labourRateCentsPerHour'
 ] as const;
 export type MarketSettingKey = (typeof MARKET_SETTING_KEYS)[number];
 export type MarketSettings = Record<MarketSettingKey, number>;
@@ -32,8 +38,23 @@ export function defaultMarketSettings(): MarketSettings {
 		feeMinimumCents: fee.minimumCents,
 		lateCancelFeeCents: lateFeeCents(),
 		minPublicLiabilityCents:
-			Number.isSafeInteger(cover) && cover > 0 ? cover : DEFAULT_MIN_PUBLIC_LIABILITY_CENTS
+			Number.isSafeInteger(cover) && cover > 0 ? cover : DEFAULT_MIN_PUBLIC_LIABILITY_CENTS,
+		confirmationWindowHours: positiveInt(
+			env.TAPLINE_CONFIRMATION_WINDOW_HOURS,
+			DEFAULT_CONFIRMATION_WINDOW_HOURS
+		),
+		labourRateCentsPerHour: ADELAIDE_MARKET.labourRateCentsPerHour
 	};
+}
+
+function positiveInt(raw: string | undefined, fallback: number): number {
+	const n = Number(raw);
+	return raw && Number.isSafeInteger(n) && n > 0 ? n : fallback;
+}
+
+/** The market the scope sheet prices with: the demo market at the labour rate in force. */
+export function scopeMarketOf(s: MarketSettings): Market {
+	return { ...ADELAIDE_MARKET, labourRateCentsPerHour: s.labourRateCentsPerHour };
 }
 
 /** The settings in force, read in the caller's transaction when given one. */

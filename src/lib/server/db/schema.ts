@@ -488,6 +488,22 @@ export const bookingStatus = pgEnum('booking_status', [
 ]);
 
 /**
+ * Where the work of a paid booking stands (see $lib/lifecycle for the legal moves):
+ * to fit → reported (fit report filed; the owner's confirmation window runs) → accepted (owner
+ * confirmed, or the window closed; held funds are released) — or reported → disputed → settled.
+ */
+export const fitStage = pgEnum('fit_stage', [
+	'to_fit',
+	'reported',
+	'accepted',
+	'disputed',
+	'settled'
+]);
+
+/** How a booking's work came to be accepted. */
+export const acceptedBy = pgEnum('accepted_by', ['owner', 'window', 'settlement']);
+
+/**
  * The owner's choice of one quote and one slot. One booking per job and per quote (unique), and an
  * installer's live bookings may not overlap in time (exclusion constraint in migration 0002).
  */
@@ -513,13 +529,54 @@ export const booking = pgTable(
 		/** A provisional booking holds the slot until then; the payment step confirms it. */
 		holdExpiresAt: timestamp('hold_expires_at', { withTimezone: true }).notNull(),
 		totalCents: integer('total_cents').notNull(),
+		/** The work's stage; meaningful once the booking is paid (status 'confirmed'). */
+		stage: fitStage('stage').notNull().default('to_fit'),
+		/** When the latest fit report was filed. */
+		reportedAt: timestamp('reported_at', { withTimezone: true }),
+		/** The owner may confirm or raise a problem until then; after it the work confirms itself. */
+		confirmBy: timestamp('confirm_by', { withTimezone: true }),
+		acceptedAt: timestamp('accepted_at', { withTimezone: true }),
+		acceptedBy: acceptedBy('accepted_by'),
 		createdAt: createdAt()
 	},
 	(t) => [
+		index('booking_confirm_by_idx')
+			.on(t.confirmBy)
+			.where(sql`stage = 'reported'`),
 		uniqueIndex('booking_live_job_idx')
 			.on(t.jobId)
 			.where(sql`status in ('awaiting_payment', 'confirmed')`),
 		index('booking_installer_idx').on(t.installerId, t.slotStart)
+	]
+);
+
+/**
+ * What the installer filed after fitting: one row per visit (a return visit after a dispute files
+ * a second). `details` holds the checked items (circuits, ratings, ground, cut-off voltage,
+ * parking-mode test, routing, camera placement), validated by $lib/forms/fit-report; the columns
+ * beside it are the ones other features query (the fit time feeds the labour calibration).
+ */
+export const fitReport = pgTable(
+	'fit_report',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id),
+		/** 1 for the booked fit, 2 for a return visit, and so on. */
+		visit: integer('visit').notNull().default(1),
+		installerId: text('installer_id')
+			.notNull()
+			.references(() => installerProfile.userId),
+		/** Minutes on the vehicle, as the installer reports them. */
+		minutesTaken: integer('minutes_taken').notNull(),
+		details: jsonb('details').notNull(),
+		notes: text('notes'),
+		filedAt: timestamp('filed_at', { withTimezone: true }).notNull().defaultNow()
+	},
+	(t) => [
+		uniqueIndex('fit_report_booking_visit_idx').on(t.bookingId, t.visit),
+		index('fit_report_installer_idx').on(t.installerId, t.filedAt)
 	]
 );
 
@@ -692,6 +749,7 @@ export type InstallerProfile = typeof installerProfile.$inferSelect;
 export type Job = typeof job.$inferSelect;
 export type Quote = typeof quote.$inferSelect;
 export type Booking = typeof booking.$inferSelect;
+export type FitStage = (typeof fitStage.enumValues)[number];
 export type LedgerTransaction = typeof ledgerTransaction.$inferSelect;
 export type JobStatus = (typeof jobStatus.enumValues)[number];
 export type VettingStatus = (typeof vettingStatus.enumValues)[number];

@@ -5,6 +5,7 @@
 import { isAccountEmail, renderAccountEmail, type AccountEmail } from './account';
 import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } from './marketplace';
 import { isPaymentEmail, renderPaymentEmail, type PaymentEmail } from './payments';
+import { isCompletionEmail, renderCompletionEmail, type CompletionEmail } from './completion';
 
 import { renderBlock, type RenderedEmail } from './layout';
 
@@ -40,7 +41,8 @@ export type EmailTemplate =
 	  }
 	| MarketplaceEmail
 	| AccountEmail
-	| PaymentEmail;
+	| PaymentEmail
+	| CompletionEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -63,6 +65,7 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isMarketplaceEmail(message)) return renderMarketplaceEmail(message);
 	if (isAccountEmail(message)) return renderAccountEmail(message);
 	if (isPaymentEmail(message)) return renderPaymentEmail(message);
+	if (isCompletionEmail(message)) return renderCompletionEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {

@@ -17,6 +17,8 @@ const asForm = (s: MarketSettings) => ({
 	feeMinimumDollars: s.feeMinimumCents / 100,
 	lateCancelFeeDollars: s.lateCancelFeeCents / 100,
 	minCoverDollars: Math.round(s.minPublicLiabilityCents / 100),
+	confirmationWindowHours: s.confirmationWindowHours,
+	labourRateDollars: s.labourRateCentsPerHour / 100,
 	reason: ''
 });
 
@@ -39,7 +41,9 @@ export const actions = {
 				feePercentBasisPoints: Math.round(d.feePercent * 100),
 				feeMinimumCents: Math.round(d.feeMinimumDollars * 100),
 				lateCancelFeeCents: Math.round(d.lateCancelFeeDollars * 100),
-				minPublicLiabilityCents: d.minCoverDollars * 100
+				minPublicLiabilityCents: d.minCoverDollars * 100,
+				confirmationWindowHours: d.confirmationWindowHours,
+				labourRateCentsPerHour: Math.round(d.labourRateDollars * 100)
 			},
 			d.reason
 		);
@@ -48,7 +52,7 @@ export const actions = {
 			form,
 			result.changed.length === 0
 				? 'Nothing changed.'
-				: `Saved: ${String(result.changed.length)} setting${result.changed.length === 1 ? '' : 's'} changed. New bookings, releases and vetting use them from now on.`
+				: `Saved: ${String(result.changed.length)} setting${result.changed.length === 1 ? '' : 's'} changed. New bookings, releases, fit reports, scope sheets and vetting use them from now on.`
 		);
 	}
 } satisfies Actions;

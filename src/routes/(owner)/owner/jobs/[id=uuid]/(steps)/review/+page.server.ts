@@ -5,6 +5,7 @@ import { computeScope, jobRequestSchema } from '$lib/scope';
 import { draftProblems, listJobPhotos, postJob } from '$lib/server/jobs';
 import { loadEditableJob } from '../editable-job';
 import { requireConfirmedRole } from '$lib/server/http/guards';
+import { getMarketSettings, scopeMarketOf } from '$lib/server/settings';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -19,7 +20,9 @@ export const load: PageServerLoad = async ({ params }) => {
 		addressLine: job.addressLine,
 		photos,
 		problems,
-		scope: parsed.success ? computeScope(parsed.data) : null,
+		scope: parsed.success
+			? computeScope(parsed.data, scopeMarketOf(await getMarketSettings()))
+			: null,
 		posted: job.status !== 'drafting',
 		place: job.suburb,
 		windows: job.preferredWindows
