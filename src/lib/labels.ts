@@ -3,6 +3,7 @@
  * every page and in every e-mail; no raw enum value reaches a screen.
  */
 import type { BoardSort } from './board';
+import type { DisputeReason, SettlementOutcome } from './disputes';
 import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
@@ -47,7 +48,9 @@ export const ADMIN_ACTION_LABELS: Record<string, string> = {
 	suspend: 'Suspended the account',
 	reinstate: 'Lifted the suspension',
 	'force-password-reset': 'Asked for a new password',
-	settings: 'Changed the market settings'
+	settings: 'Changed the market settings',
+	'dispute-note': 'Added a note to a dispute',
+	'dispute-settle': 'Settled a dispute'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {
@@ -277,3 +280,40 @@ const PAYMENT_EVENT_LABELS: Record<string, string> = {
 export function paymentEventLabel(type: string): string {
 	return PAYMENT_EVENT_LABELS[type] ?? `Provider: other event (${type})`;
 }
+
+/** Why an owner raised a problem, as both sides and admins read it. */
+export const DISPUTE_REASON_LABELS: Record<DisputeReason, string> = {
+	'not-recording': 'The camera is not recording',
+	'parking-mode': 'Parking mode is not working',
+	'battery-drained': 'The battery went flat',
+	'cable-visible': 'Cable visible or trim damaged',
+	'vehicle-damage': 'Damage to the vehicle',
+	'not-as-quoted': 'Work not done as quoted',
+	other: 'Something else'
+};
+
+/** How a dispute was settled. */
+export const DISPUTE_OUTCOME_LABELS: Record<SettlementOutcome, string> = {
+	release: 'Released in full to the installer',
+	partial_refund: 'Part refunded to the owner, the rest released',
+	full_refund: 'Refunded in full to the owner',
+	return_visit: 'Return visit by the installer'
+};
+
+/** Where a dispute stands. */
+export const DISPUTE_STATUS_LABELS: Record<'open' | 'settled', string> = {
+	open: 'Open: with a Tapline admin',
+	settled: 'Settled'
+};
+
+/** A line of a dispute's timeline. */
+export const DISPUTE_EVENT_LABELS: Record<
+	'opened' | 'owner_evidence' | 'installer_response' | 'admin_note' | 'settlement',
+	string
+> = {
+	opened: 'Problem raised by the owner',
+	owner_evidence: 'More from the owner',
+	installer_response: 'The installer’s response',
+	admin_note: 'Note from Tapline',
+	settlement: 'Settled by Tapline'
+};

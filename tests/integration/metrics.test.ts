@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
-import { booking, installerProfile, job, quote } from '$lib/server/db/schema';
+import { booking, dispute, installerProfile, job, quote } from '$lib/server/db/schema';
 import { eq } from 'drizzle-orm';
 import { getAdminQueueCounts, getMarketMetrics } from '$lib/server/metrics';
 import { makeInstaller, makeUser } from './matching-helpers';
@@ -97,26 +97,55 @@ describe('the marketplace metrics of the admin overview', () => {
 			slotEnd: new Date(Date.UTC(2026, 11, day, 2)),
 			holdExpiresAt: NOW
 		});
-		await db.insert(booking).values([
-			{
-				jobId: a.id,
-				quoteId: a.quoteIds[0]!,
-				installerId: installers[0]!,
-				ownerId: owner.id,
-				status: 'confirmed',
-				totalCents: 33_000,
-				...slot(3)
-			},
-			{
-				jobId: c.id,
-				quoteId: c.quoteIds[0]!,
-				installerId: installers[0]!,
-				ownerId: owner.id,
-				status: 'lapsed',
-				totalCents: 20_000,
-				...slot(4)
-			}
-		]);
+		const [paidA, lapsedC] = await db
+			.insert(booking)
+			.values([
+				{
+					jobId: a.id,
+					quoteId: a.quoteIds[0]!,
+					installerId: installers[0]!,
+					ownerId: owner.id,
+					status: 'confirmed',
+					totalCents: 33_000,
+					...slot(3)
+				},
+				{
+					jobId: c.id,
+					quoteId: c.quoteIds[0]!,
+					installerId: installers[0]!,
+					ownerId: owner.id,
+					status: 'lapsed',
+					totalCents: 20_000,
+					...slot(4)
+				}
+			])
+			.returning({ id: booking.id });
+		// Disputes (window: 2026-11-15T13:30Z to NOW, both ends counted):
+		//   1 opened 17 Nov, settled 20 Nov          → opened, settled
+		//   2 opened 1 s before the window, settled 24 Nov → settled only
+		//   3 opened 24 Nov, still open               → opened
+		//   4 opened 1 h after now, open              → neither
+		//   5 opened at the window's first instant, settled 1 h after now → opened only
+		// Hand count: opened 3 (1, 3, 5), settled 2 (1, 2).
+		const disputeRow = (bookingId: string, openedAt: string, settledAt: string | null) => ({
+			bookingId,
+			openedBy: owner.id,
+			reason: 'other',
+			description: 'Fixture dispute',
+			heldCents: 33_000,
+			openedAt: new Date(openedAt),
+			status: settledAt ? ('settled' as const) : ('open' as const),
+			settledAt: settledAt ? new Date(settledAt) : null
+		});
+		await db
+			.insert(dispute)
+			.values([
+				disputeRow(paidA!.id, '2026-11-17T00:00:00Z', '2026-11-20T00:00:00Z'),
+				disputeRow(paidA!.id, '2026-11-15T13:29:59Z', '2026-11-24T00:00:00Z'),
+				disputeRow(paidA!.id, '2026-11-24T00:00:00Z', null),
+				disputeRow(lapsedC!.id, '2026-11-25T03:00:00Z', null),
+				disputeRow(paidA!.id, '2026-11-15T13:30:00Z', '2026-11-25T03:00:00Z')
+			]);
 
 		const m = await getMarketMetrics(NOW, 2);
 		expect(m.weeks).toEqual([
@@ -133,6 +162,8 @@ describe('the marketplace metrics of the admin overview', () => {
 		expect(m.quotesPerJob).toBe(1);
 		expect(m.paidBookings).toBe(1);
 		expect(m.grossBookingCents).toBe(33_000);
+		expect(m.disputesOpened).toBe(3);
+		expect(m.disputesSettled).toBe(2);
 		expect(m.suburbs).toEqual([
 			{
 				suburb: 'Norwood',
@@ -156,6 +187,8 @@ describe('the marketplace metrics of the admin overview', () => {
 		expect(m.medianHoursToFirstQuote).toBeNull();
 		expect(m.quotesPerJob).toBeNull();
 		expect(m.grossBookingCents).toBe(0);
+		expect(m.disputesOpened).toBe(0);
+		expect(m.disputesSettled).toBe(0);
 		expect(m.suburbs).toEqual([]);
 	});
 

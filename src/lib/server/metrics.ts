@@ -1,6 +1,6 @@
 import { count, eq, isNotNull, isNull, and, gt, sql } from 'drizzle-orm';
 import { db } from './db';
-import { emailOutbox, installerProfile, user } from './db/schema';
+import { dispute, emailOutbox, installerProfile, user } from './db/schema';
 
 /** Headline counts for the admin overview, fetched in parallel. */
 export async function getPlatformCounts() {
@@ -42,20 +42,23 @@ export async function getPlatformCounts() {
 }
 
 /** What waits on an admin, for the counts beside the admin navigation. */
-export async function getAdminQueueCounts(): Promise<{ vetting: number }> {
-	const [waiting] = await db
-		.select({ n: count() })
-		.from(installerProfile)
-		// As the vetting queue counts: sent (a draft waits for nobody) and not a closed account.
-		.innerJoin(user, eq(user.id, installerProfile.userId))
-		.where(
-			and(
-				eq(installerProfile.vettingStatus, 'applied'),
-				isNotNull(installerProfile.submittedAt),
-				isNull(user.deletedAt)
-			)
-		);
-	return { vetting: waiting?.n ?? 0 };
+export async function getAdminQueueCounts(): Promise<{ vetting: number; disputes: number }> {
+	const [[waiting], [disputes]] = await Promise.all([
+		db
+			.select({ n: count() })
+			.from(installerProfile)
+			// As the vetting queue counts: sent (a draft waits for nobody) and not a closed account.
+			.innerJoin(user, eq(user.id, installerProfile.userId))
+			.where(
+				and(
+					eq(installerProfile.vettingStatus, 'applied'),
+					isNotNull(installerProfile.submittedAt),
+					isNull(user.deletedAt)
+				)
+			),
+		db.select({ n: count() }).from(dispute).where(eq(dispute.status, 'open'))
+	]);
+	return { vetting: waiting?.n ?? 0, disputes: disputes?.n ?? 0 };
 }
 
 /** Booking statuses that mean the owner paid into held funds (now or before a later change). */
@@ -85,6 +88,10 @@ export interface MarketMetrics {
 	paidBookings: number;
 	/** Sum of those bookings' totals, GST-inclusive cents. */
 	grossBookingCents: number;
+	/** Disputes the owners opened in the window (whatever became of them). */
+	disputesOpened: number;
+	/** Disputes an admin settled in the window (whenever they were opened). */
+	disputesSettled: number;
 	/** Posted jobs by suburb at the suburb's mean job point, most first. */
 	suburbs: Array<{ suburb: string; lat: number; lng: number; jobs: number }>;
 }
@@ -127,6 +134,8 @@ export async function getMarketMetrics(
 			quotes_per_job: string | null;
 			paid: number;
 			gross: string | null;
+			disputes_opened: number;
+			disputes_settled: number;
 		}>(sql`
 		WITH posted AS (${posted})
 		SELECT count(*)::int AS posted,
@@ -137,7 +146,9 @@ export async function getMarketMetrics(
 				FILTER (WHERE p.first_quote IS NOT NULL) AS median_seconds,
 			avg(p.quotes)::numeric(10, 4)::text AS quotes_per_job,
 			(SELECT count(DISTINCT b.job_id)::int FROM booking b JOIN posted pp ON pp.id = b.job_id WHERE ${PAID_BOOKING}) AS paid,
-			(SELECT sum(b.total_cents)::text FROM booking b JOIN posted pp ON pp.id = b.job_id WHERE ${PAID_BOOKING}) AS gross
+			(SELECT sum(b.total_cents)::text FROM booking b JOIN posted pp ON pp.id = b.job_id WHERE ${PAID_BOOKING}) AS gross,
+			(SELECT count(*)::int FROM dispute d WHERE d.opened_at >= ${from} AND d.opened_at <= ${now}) AS disputes_opened,
+			(SELECT count(*)::int FROM dispute d WHERE d.settled_at >= ${from} AND d.settled_at <= ${now}) AS disputes_settled
 		FROM posted p`)
 	).rows;
 	const suburbs = await db.execute<{ suburb: string; lat: number; lng: number; jobs: number }>(sql`
@@ -159,6 +170,8 @@ export async function getMarketMetrics(
 		quotesPerJob: totals?.quotes_per_job == null ? null : Number(totals.quotes_per_job),
 		paidBookings: totals?.paid ?? 0,
 		grossBookingCents: Number(totals?.gross ?? 0),
+		disputesOpened: totals?.disputes_opened ?? 0,
+		disputesSettled: totals?.disputes_settled ?? 0,
 		suburbs: suburbs.rows.map((s) => ({ ...s, lat: Number(s.lat), lng: Number(s.lng) }))
 	};
 }

@@ -70,7 +70,8 @@ async function lockBooking(tx: Tx, bookingId: string) {
 	return row ?? null;
 }
 
-async function lockPayment(tx: Tx, bookingId: string) {
+/** The booking's payment row (made when missing), locked for update: every money call holds it. */
+export async function lockPayment(tx: Tx, bookingId: string) {
 	await tx.insert(payment).values({ bookingId }).onConflictDoNothing();
 	const [row] = await tx
 		.select()
@@ -81,7 +82,8 @@ async function lockPayment(tx: Tx, bookingId: string) {
 	return row;
 }
 
-async function installerOf(tx: Tx, installerId: string) {
+/** An installer's e-mail, business name, zone and payout account. */
+export async function installerOf(tx: Tx, installerId: string) {
 	const [row] = await tx
 		.select({
 			email: user.email,
@@ -497,8 +499,13 @@ async function tellConfirmed(
 	);
 }
 
-/** Refunds `amountCents` of a booking's payment at the provider and ledgers it, in `tx`. */
-async function refundInTx(
+/**
+ * Refunds `amountCents` of a booking's payment at the provider and ledgers it, in `tx` (the caller
+ * holds the booking's payment row lock). The idempotency key is `refund-<booking>-<key>`, so a
+ * retried call with the same key refunds once; the ledger posting commits with the caller's work.
+ * @returns the provider's refund id
+ */
+export async function refundInTx(
 	tx: Tx,
 	bookingId: string,
 	paymentIntentId: string,
@@ -528,6 +535,72 @@ async function refundInTx(
 }
 
 // ------------------------------------------------------------------------------------ release
+
+/** What {@link releaseInTx} needs: how much of the held funds to release, and where to. */
+export interface ReleaseInTx {
+	bookingId: string;
+	/** Cents of the held funds released; Tapline's fee is taken from them, the rest transferred. */
+	amountCents: number;
+	payoutAccountId: string;
+	/** Derived from what asks for the release (the booking, or a dispute), so a retry pays once. */
+	idempotencyKey: string;
+	/** The ledger reference when the whole amount is fee and nothing is transferred. */
+	referenceWithoutTransfer: string;
+	now: Date;
+}
+
+/**
+ * Releases `amountCents` of a booking's held funds in `tx`: Tapline's fee on that amount
+ * ({@link releaseSplit}, the settings read in `tx`), one transfer of the rest to the installer
+ * with the booking's transfer group, the ledger posting, and the payment row's payout columns.
+ * The caller holds the booking's payment row lock and has checked the amount is held.
+ */
+export async function releaseInTx(tx: Tx, release: ReleaseInTx) {
+	const { bookingId, now } = release;
+	const split = releaseSplit(release.amountCents, feeOf(await getMarketSettings(tx)));
+	let transferId: string | null = null;
+	if (split.payoutCents > 0) {
+		const transfer = await stripe().transfers.create(
+			{
+				amount: split.payoutCents,
+				currency: 'aud',
+				destination: release.payoutAccountId,
+				transfer_group: transferGroupOf(bookingId),
+				description: `Tapline payout for booking ${bookingId}`,
+				metadata: { booking_id: bookingId }
+			},
+			{ idempotencyKey: release.idempotencyKey }
+		);
+		transferId = transfer.id;
+	}
+	await postLedgerTransaction(tx, {
+		kind: 'release',
+		bookingId,
+		reference: transferId ?? release.referenceWithoutTransfer,
+		memo: `Released: ${formatAud(split.payoutCents)} to the installer, Tapline's fee ${formatAud(split.feeCents)} (GST ${formatAud(split.gstOnFeeCents)})`,
+		entries: [
+			{ account: 'owner_funds_held', amountCents: split.totalCents },
+			{ account: 'fee_revenue', amountCents: -(split.feeCents - split.gstOnFeeCents) },
+			{ account: 'gst_payable', amountCents: -split.gstOnFeeCents },
+			{ account: 'installer_payable', amountCents: -split.payoutCents },
+			{ account: 'installer_payable', amountCents: split.payoutCents },
+			{ account: 'platform_cash', amountCents: -split.payoutCents }
+		]
+	});
+	await tx
+		.update(payment)
+		.set({
+			releaseRequestedAt: sql`coalesce(${payment.releaseRequestedAt}, ${now})`,
+			releasedAt: now,
+			transferId,
+			feeCents: split.feeCents,
+			gstOnFeeCents: split.gstOnFeeCents,
+			payoutCents: split.payoutCents,
+			lastReleaseError: null
+		})
+		.where(eq(payment.bookingId, bookingId));
+	return { split, transferId };
+}
 
 export type ReleaseOutcome =
 	{ ok: true; transferId: string | null; payoutCents: number; alreadyReleased: boolean } | Refusal;
@@ -565,48 +638,14 @@ export async function releaseHeldFunds(
 			if (!installer.payoutAccountId || !installer.payoutsEnabled) {
 				return refuse(409, 'The installer has not finished setting up payouts.');
 			}
-			const split = releaseSplit(held, feeOf(await getMarketSettings(tx)));
-			let transferId: string | null = null;
-			if (split.payoutCents > 0) {
-				const transfer = await stripe().transfers.create(
-					{
-						amount: split.payoutCents,
-						currency: 'aud',
-						destination: installer.payoutAccountId,
-						transfer_group: transferGroupOf(bookingId),
-						description: `Tapline payout for booking ${bookingId}`,
-						metadata: { booking_id: bookingId }
-					},
-					{ idempotencyKey: `release-${bookingId}` }
-				);
-				transferId = transfer.id;
-			}
-			await postLedgerTransaction(tx, {
-				kind: 'release',
+			const { split, transferId } = await releaseInTx(tx, {
 				bookingId,
-				reference: transferId ?? `release-without-transfer:${bookingId}`,
-				memo: `Released: ${formatAud(split.payoutCents)} to the installer, Tapline's fee ${formatAud(split.feeCents)} (GST ${formatAud(split.gstOnFeeCents)})`,
-				entries: [
-					{ account: 'owner_funds_held', amountCents: held },
-					{ account: 'fee_revenue', amountCents: -(split.feeCents - split.gstOnFeeCents) },
-					{ account: 'gst_payable', amountCents: -split.gstOnFeeCents },
-					{ account: 'installer_payable', amountCents: -split.payoutCents },
-					{ account: 'installer_payable', amountCents: split.payoutCents },
-					{ account: 'platform_cash', amountCents: -split.payoutCents }
-				]
+				amountCents: held,
+				payoutAccountId: installer.payoutAccountId,
+				idempotencyKey: `release-${bookingId}`,
+				referenceWithoutTransfer: `release-without-transfer:${bookingId}`,
+				now
 			});
-			await tx
-				.update(payment)
-				.set({
-					releaseRequestedAt: paid.releaseRequestedAt ?? now,
-					releasedAt: now,
-					transferId,
-					feeCents: split.feeCents,
-					gstOnFeeCents: split.gstOnFeeCents,
-					payoutCents: split.payoutCents,
-					lastReleaseError: null
-				})
-				.where(eq(payment.bookingId, bookingId));
 			const title = titleOrUntitled(row.title);
 			await mail.send(installer.email, {
 				template: 'payout-sent',

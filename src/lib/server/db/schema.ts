@@ -743,6 +743,111 @@ export const notice = pgTable(
 	(t) => [index('notice_user_idx').on(t.userId, t.createdAt)]
 );
 
+/** Where a dispute stands: open until an admin settles it; a settled one is never reopened. */
+export const disputeStatus = pgEnum('dispute_status', ['open', 'settled']);
+
+/** How an admin settled a dispute (see $lib/disputes for the money of each). */
+export const disputeOutcome = pgEnum('dispute_outcome', [
+	'release',
+	'partial_refund',
+	'full_refund',
+	'return_visit'
+]);
+
+/**
+ * A problem the owner raised about reported work, within the confirmation window. At most one
+ * open per booking (partial unique index); settled ones stay for the record. The held funds stay
+ * held while it is open (the auto-confirm schedule only confirms stage 'reported'). The settlement
+ * columns say what the admin decided and what moved: refund to the owner, payout to the installer
+ * and Tapline's fee (with its GST) on the released part.
+ */
+export const dispute = pgTable(
+	'dispute',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id),
+		openedBy: text('opened_by')
+			.notNull()
+			.references(() => user.id),
+		/** One of DISPUTE_REASONS in $lib/disputes. */
+		reason: text('reason').notNull(),
+		description: text('description').notNull(),
+		status: disputeStatus('status').notNull().default('open'),
+		/** What the booking held when the dispute was opened, in cents. */
+		heldCents: integer('held_cents').notNull(),
+		openedAt: timestamp('opened_at', { withTimezone: true }).notNull().defaultNow(),
+		outcome: disputeOutcome('outcome'),
+		refundCents: integer('refund_cents'),
+		payoutCents: integer('payout_cents'),
+		feeCents: integer('fee_cents'),
+		gstOnFeeCents: integer('gst_on_fee_cents'),
+		returnVisitStart: timestamp('return_visit_start', { withTimezone: true }),
+		returnVisitEnd: timestamp('return_visit_end', { withTimezone: true }),
+		settledBy: text('settled_by').references(() => user.id),
+		settledAt: timestamp('settled_at', { withTimezone: true }),
+		/** The admin's explanation, e-mailed to both sides. */
+		settlementNote: text('settlement_note')
+	},
+	(t) => [
+		uniqueIndex('dispute_open_booking_idx')
+			.on(t.bookingId)
+			.where(sql`status = 'open'`),
+		index('dispute_booking_idx').on(t.bookingId, t.openedAt),
+		index('dispute_status_opened_idx').on(t.status, t.openedAt),
+		index('dispute_settled_idx').on(t.settledAt)
+	]
+);
+
+/** A line of a dispute's timeline, which both sides and admins read. */
+export const disputeEventKind = pgEnum('dispute_event_kind', [
+	'opened',
+	'owner_evidence',
+	'installer_response',
+	'admin_note',
+	'settlement'
+]);
+
+export const disputeEvent = pgTable(
+	'dispute_event',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		disputeId: uuid('dispute_id')
+			.notNull()
+			.references(() => dispute.id),
+		kind: disputeEventKind('kind').notNull(),
+		authorId: text('author_id')
+			.notNull()
+			.references(() => user.id),
+		body: text('body').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [index('dispute_event_dispute_idx').on(t.disputeId, t.createdAt)]
+);
+
+/** Photos attached to a dispute's timeline line (same upload pipeline as job photos). */
+export const disputePhoto = pgTable(
+	'dispute_photo',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		disputeId: uuid('dispute_id')
+			.notNull()
+			.references(() => dispute.id),
+		eventId: uuid('event_id')
+			.notNull()
+			.references(() => disputeEvent.id),
+		uploadedBy: text('uploaded_by')
+			.notNull()
+			.references(() => user.id),
+		objectKey: text('object_key').notNull(),
+		thumbKey: text('thumb_key').notNull(),
+		bytes: integer('bytes').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [index('dispute_photo_event_idx').on(t.eventId)]
+);
+
 export type User = typeof user.$inferSelect;
 export type Role = (typeof userRole.enumValues)[number];
 export type InstallerProfile = typeof installerProfile.$inferSelect;
@@ -750,6 +855,9 @@ export type Job = typeof job.$inferSelect;
 export type Quote = typeof quote.$inferSelect;
 export type Booking = typeof booking.$inferSelect;
 export type FitStage = (typeof fitStage.enumValues)[number];
+export type Dispute = typeof dispute.$inferSelect;
+export type DisputeOutcome = (typeof disputeOutcome.enumValues)[number];
+export type DisputeEventKind = (typeof disputeEventKind.enumValues)[number];
 export type LedgerTransaction = typeof ledgerTransaction.$inferSelect;
 export type JobStatus = (typeof jobStatus.enumValues)[number];
 export type VettingStatus = (typeof vettingStatus.enumValues)[number];
