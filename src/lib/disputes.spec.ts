@@ -69,3 +69,17 @@ describe('settlementMoney', () => {
 		expect(settlementMoney('return_visit', 0, null, FEE)).toMatchObject({ ok: true });
 	});
 });
+
+describe('dollarsToCents (the settle form’s refund field)', () => {
+	it('reads dollars and cents exactly, and refuses what is not a sum of money', async () => {
+		const { dollarsToCents } = await import('./forms/dispute');
+		expect(dollarsToCents('150')).toBe(15_000);
+		expect(dollarsToCents('150.5')).toBe(15_050);
+		expect(dollarsToCents('$150.05')).toBe(15_005);
+		// 0.29 × 100 is 28.999… in binary floating point; the string is read digit by digit.
+		expect(dollarsToCents('0.29')).toBe(29);
+		for (const bad of ['', 'abc', '1.234', '-5', '1e3', '12,50']) {
+			expect(dollarsToCents(bad)).toBeNull();
+		}
+	});
+});

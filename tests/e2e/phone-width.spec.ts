@@ -90,7 +90,8 @@ test("an admin's pages fit a 360 px phone", async ({ page }) => {
 		'/account',
 		'/admin/payments',
 		'/admin/settings',
-		'/admin/bookings'
+		'/admin/bookings',
+		'/admin/disputes'
 	];
 	expect(await tooWide(page, paths)).toEqual([]);
 });

@@ -8,6 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import * as accountForms from '$lib/forms/account';
 import * as authForms from '$lib/forms/auth';
+import * as disputeForms from '$lib/forms/dispute';
 import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as jobForms from '$lib/forms/job';
 import * as threadForms from '$lib/forms/thread';
@@ -18,6 +19,7 @@ import * as quoteForms from '../../src/routes/(installer)/installer/jobs/[id=uui
 const MODULES = {
 	accountForms,
 	authForms,
+	disputeForms,
 	jobForms,
 	threadForms,
 	vettingForms,
@@ -65,7 +67,9 @@ describe('every free-text field refuses NUL characters', () => {
 				'jobRequest.jobRequestSchema.model',
 				'vettingForms.decisionSchema.message',
 				'threadForms.threadMessageSchema.body',
-				'quoteForms.quoteFormSchema.message'
+				'quoteForms.quoteFormSchema.message',
+				'disputeForms.raiseProblemSchema.description',
+				'disputeForms.settleSchema.note'
 			])
 		);
 	});
@@ -83,7 +87,8 @@ describe('date fields refuse days that do not exist', () => {
 		{ field: 'blockedDateSchema.day', schema: vettingForms.blockedDateSchema, key: 'day' },
 		{ field: 'insuranceSchema.expiresOn', schema: vettingForms.insuranceSchema, key: 'expiresOn' },
 		{ field: 'quoteFormSchema.expiresOn', schema: quoteForms.quoteFormSchema, key: 'expiresOn' },
-		{ field: 'quoteFormSchema.slotDate', schema: quoteForms.quoteFormSchema, key: 'slotDate' }
+		{ field: 'quoteFormSchema.slotDate', schema: quoteForms.quoteFormSchema, key: 'slotDate' },
+		{ field: 'settleSchema.visitDate', schema: disputeForms.settleSchema, key: 'visitDate' }
 	];
 
 	it.each(dateFields)('$field', ({ schema, key }) => {

@@ -39,7 +39,12 @@ export const settleSchema = z
 	.object({
 		outcome: z.enum(SETTLEMENT_OUTCOMES, { error: 'Choose how to settle' }),
 		refund: textField().trim().max(20).default(''),
-		visitDate: textField().trim().max(10).default(''),
+		visitDate: textField()
+			.trim()
+			.refine((v) => v === '' || isCalendarDate(v), {
+				message: 'Choose a day that exists on the calendar'
+			})
+			.default(''),
 		visitTime: textField().trim().max(5).default(''),
 		note: words(5, 1000, 'an explanation both sides will read'),
 		confirm: z
@@ -56,7 +61,7 @@ export const settleSchema = z
 			});
 		}
 		if (v.outcome === 'return_visit') {
-			if (!isCalendarDate(v.visitDate)) {
+			if (v.visitDate === '') {
 				ctx.addIssue({ code: 'custom', path: ['visitDate'], message: 'Choose the day' });
 			}
 			if (!/^([01]\d|2[0-3]):[0-5]\d$/.test(v.visitTime)) {

@@ -297,6 +297,7 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 			slotStart: booking.slotStart,
 			slotEnd: booking.slotEnd,
 			status: booking.status,
+			stage: booking.stage,
 			holdExpiresAt: booking.holdExpiresAt
 		})
 		.from(booking)

@@ -46,7 +46,11 @@ export const load: PageServerLoad = async ({ params, url }) => {
 				{ start: b.slotStart.toISOString(), end: b.slotEnd.toISOString() },
 				row.timeZone
 			),
-			holdExpiresAt: b.holdExpiresAt.toISOString()
+			holdExpiresAt: b.holdExpiresAt.toISOString(),
+			stage: b.stage,
+			// The owner may raise a problem until the confirmation deadline (see $lib/lifecycle).
+			mayRaiseProblem:
+				b.status === 'confirmed' && b.stage === 'reported' && !!b.confirmBy && b.confirmBy > now
 		},
 		payment: {
 			paid: money.paidAt !== null,
