@@ -142,7 +142,14 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 			'Refunded to the owner: $50.00'
 		);
 		await expect(side.getByTestId('dispute-entry-form')).toHaveCount(0);
+		// The page fits a phone held upright (375 px).
+		await side.setViewportSize({ width: 375, height: 740 });
+		expect(await side.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+			375
+		);
 	}
+	await page.setViewportSize({ width: 375, height: 740 });
+	expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(375);
 	await waitForMail(owner.email, new RegExp(`Settled: ${title}`));
 	await waitForMail(INSTALLER, new RegExp(`Settled: ${title}`));
 
