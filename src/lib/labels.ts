@@ -50,7 +50,8 @@ export const ADMIN_ACTION_LABELS: Record<string, string> = {
 	'force-password-reset': 'Asked for a new password',
 	settings: 'Changed the market settings',
 	'dispute-note': 'Added a note to a dispute',
-	'dispute-settle': 'Settled a dispute'
+	'dispute-settle': 'Settled a dispute',
+	'admin-invite': 'Made an admin account'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {
