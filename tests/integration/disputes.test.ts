@@ -20,6 +20,7 @@ import {
 import {
 	addAdminNote,
 	addDisputeEntry,
+	findViewableDisputePhoto,
 	getDisputeForParty,
 	listDisputes,
 	openDispute,
@@ -216,6 +217,30 @@ describe('the timeline', () => {
 		).toMatchObject({ ok: false, status: 404 });
 		const notes = await db.select().from(adminAudit).where(eq(adminAudit.action, 'dispute-note'));
 		expect(notes.some((n) => n.after?.disputeId === made.disputeId)).toBe(true);
+	});
+
+	it('shows its photos to the two parties and admins only', async () => {
+		const made = await reportedBooking();
+		// Keys as the upload pipeline writes them; the rule under test reads only the rows.
+		const opened = await openDispute({
+			bookingId: made.bookingId,
+			ownerId: made.ownerId,
+			reason: 'vehicle-damage',
+			description: 'A scratch on the dashboard where the cable was routed.',
+			photos: [{ objectKey: 'disputes/x/a.jpg', thumbKey: 'disputes/x/a-thumb.jpg', bytes: 10 }]
+		});
+		expect(opened.ok).toBe(true);
+		const party = await getDisputeForParty(made.bookingId, made.ownerId, 'owner');
+		const photoId = party!.timeline[0]!.photoIds[0]!;
+		const sees = async (id: string, role: string) =>
+			(await findViewableDisputePhoto(photoId, { id, role })) !== null;
+		expect(await sees(made.ownerId, 'owner')).toBe(true);
+		expect(await sees(made.chosen.installerId, 'installer')).toBe(true);
+		expect(await sees(adminId, 'admin')).toBe(true);
+		const stranger = await makeUser('owner', 'photo-stranger');
+		expect(await sees(stranger.id, 'owner')).toBe(false);
+		const otherInstaller = await makeUser('installer', 'photo-installer');
+		expect(await sees(otherInstaller.id, 'installer')).toBe(false);
 	});
 
 	it('shows open disputes oldest first with the count beside the navigation', async () => {
