@@ -4,6 +4,7 @@
  * progress finishes first and the quote then sees it); every revision is kept in quote_revision.
  * Contact details in quote notes are masked until the job is booked with that installer.
  */
+import { consumeQuoteSubmission, slowDownMessage } from './rate-limit';
 import { and, asc, eq, gt, inArray, isNull, lt, or } from 'drizzle-orm';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { approximateLocation, matchProblem, reachOf } from '$lib/matching';
@@ -60,6 +61,10 @@ export async function submitQuote(
 	input: QuoteInput,
 	now = new Date()
 ): Promise<QuoteOutcome> {
+	const throttle = await consumeQuoteSubmission(installerId);
+	if (!throttle.allowed) {
+		return refuse(429, slowDownMessage('quotes', throttle.retryAfterSeconds));
+	}
 	return withMail(async (tx, mail) => {
 		const [profile] = await tx
 			.select()
