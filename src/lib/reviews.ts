@@ -54,7 +54,8 @@ export function reviewWindowCloses(acceptedAt: Date): Date {
 
 export type ReviewWindow =
 	| { open: true; closesAt: Date }
-	| { open: false; reason: 'not-accepted' | 'closed'; closesAt: Date | null };
+	| { open: false; reason: 'not-accepted'; closesAt: null }
+	| { open: false; reason: 'closed'; closesAt: Date };
 
 /**
  * Whether a review may be written now: the work is accepted (or settled) and `now` is before the

@@ -43,6 +43,7 @@ async function readBooking(tx: Tx | Db, bookingId: string, lock: boolean) {
 	const query = tx
 		.select({
 			id: booking.id,
+			jobId: booking.jobId,
 			ownerId: booking.ownerId,
 			installerId: booking.installerId,
 			status: booking.status,
@@ -241,10 +242,12 @@ export async function getReviewPanel(
 	const ownerReview = rows.find((r) => r.side === 'owner') ?? null;
 	return {
 		bookingId,
+		jobId: row.jobId,
 		side,
 		path: reviewPath(side, bookingId),
 		title: titleOrUntitled(row.title),
 		otherName: side === 'owner' ? row.businessName : row.ownerName,
+		installerName: row.businessName,
 		accepted: window.open || window.reason === 'closed',
 		windowOpen: window.open,
 		closesOn: window.closesAt ? formatDayTime(window.closesAt, row.timeZone, now) : null,
@@ -351,3 +354,4 @@ export async function listInstallerReviews(installerId: string, page: number, no
 		}))
 	};
 }
+export type InstallerReviewPage = Awaited<ReturnType<typeof listInstallerReviews>>;
