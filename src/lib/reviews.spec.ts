@@ -1,6 +1,8 @@
 // Review rules are Tapline's own (the lifecycle issue): 14 days from acceptance, hidden until both
 // sides have reviewed or the window closes, overall star = the plain mean of the aspects.
 import { describe, expect, it } from 'vitest';
+import { NUL_MESSAGE } from './forms/fields';
+import { installerReviewSchema, ownerReviewSchema, reviewReplySchema } from './forms/review';
 import { FIT_STAGES } from './lifecycle';
 import {
 	aspectAverages,
@@ -153,5 +155,30 @@ describe('the installer’s reply', () => {
 		);
 		expect(mayReply({ visibleFrom: closesAt, reply: null }, closesAt)).toBe(true);
 		expect(mayReply({ visibleFrom: closesAt, reply: 'Thanks' }, closesAt)).toBe(false);
+	});
+});
+
+describe('the review forms', () => {
+	const good = { vehicleReady: 5, communication: 4, accurateJob: 3, text: 'Ready on time.' };
+
+	it('take whole stars 1..5 and 10 to 2,000 characters, trimmed', () => {
+		expect(
+			installerReviewSchema.safeParse({ ...good, text: '  Ready on time.  ' }).data?.text
+		).toBe('Ready on time.');
+		for (const bad of [0, 6, 2.5]) {
+			expect(installerReviewSchema.safeParse({ ...good, accurateJob: bad }).success).toBe(false);
+		}
+		expect(installerReviewSchema.safeParse({ ...good, text: 'Too short' }).success).toBe(false);
+		expect(installerReviewSchema.safeParse({ ...good, text: 'x'.repeat(2001) }).success).toBe(
+			false
+		);
+		expect(ownerReviewSchema.safeParse(good).success).toBe(false);
+	});
+
+	it('refuse a NUL character in the text and the reply', () => {
+		const text = installerReviewSchema.safeParse({ ...good, text: 'Ready on\u0000 time.' });
+		expect(text.error?.issues.map((i) => i.message)).toContain(NUL_MESSAGE);
+		const reply = reviewReplySchema.safeParse({ reply: 'Thanks\u0000' });
+		expect(reply.error?.issues.map((i) => i.message)).toContain(NUL_MESSAGE);
 	});
 });

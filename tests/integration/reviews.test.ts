@@ -182,6 +182,26 @@ describe('the installer reviewing the owner', () => {
 	});
 });
 
+describe('both sides at once', () => {
+	it('serialises on the booking, so both reviews show from the second one', async () => {
+		const b = await acceptedBooking();
+		const at = after(b.acceptedAt, DAY);
+		const [o, i] = await Promise.all([
+			submitReview(b.bookingId, b.ownerId, 'owner', OWNER_REVIEW, at),
+			submitReview(b.bookingId, b.installerId, 'installer', INSTALLER_REVIEW, at)
+		]);
+		expect([o.ok, i.ok]).toEqual([true, true]);
+		const rows = await db.select().from(review).where(eq(review.bookingId, b.bookingId));
+		expect(rows.map((r) => r.visibleFrom.getTime())).toEqual([at.getTime(), at.getTime()]);
+		// Both sent the same second a review is written; one e-mail says both now show.
+		const told = [
+			...(await mailsTo('reviews-visible', await emailOf(b.ownerId))),
+			...(await mailsTo('reviews-visible', await emailOf(b.installerId)))
+		];
+		expect(told).toHaveLength(1);
+	});
+});
+
 describe('the window closing', () => {
 	it('shows a lone review at the close and refuses reviews from then on', async () => {
 		const b = await acceptedBooking();
