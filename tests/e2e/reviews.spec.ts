@@ -35,7 +35,7 @@ async function rate(page: Page, stars: Record<string, number>, text: string) {
 	for (const [aspect, n] of Object.entries(stars)) {
 		await page
 			.getByRole('group', { name: aspect })
-			.getByLabel(`${String(n)} ${n === 1 ? 'star' : 'stars'}`, { exact: true })
+			.getByRole('radio', { name: `${String(n)} ${n === 1 ? 'star' : 'stars'}`, exact: true })
 			.check();
 	}
 	await page.getByLabel('Your review').fill(text);
@@ -48,6 +48,8 @@ test('both sides review blind, then see each other; the installer replies once, 
 }) => {
 	const { id, owner, installer } = await acceptedBooking(browser);
 	const ownerPage = await owner.context.newPage();
+	// A small phone held upright, as in phone-width.spec.ts.
+	await ownerPage.setViewportSize({ width: 360, height: 740 });
 
 	// The owner finds the review from the booking page.
 	await ownerPage.goto(`/owner/bookings/${id}`);
@@ -66,6 +68,9 @@ test('both sides review blind, then see each other; the installer replies once, 
 	);
 	await expect(ownerPage.getByTestId('review-mine-hidden')).toBeVisible();
 	await expect(ownerPage.getByTestId('review-form')).toHaveCount(0);
+	expect(await ownerPage.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+		360
+	);
 
 	// The installer sees only that a review waits, then writes theirs.
 	const installerPage = await installer.context.newPage();
