@@ -15,6 +15,7 @@ import { quoteFormDefaults } from './quote-defaults';
 import { CONTACTS_HIDDEN_NOTE as HIDDEN_NOTE } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { cancelPaidBooking } from '$lib/server/payments';
+import { feeOf, getMarketSettings } from '$lib/server/settings';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = 'There is no such job on your board.';
@@ -88,7 +89,9 @@ export const load: PageServerLoad = async ({ params }) => {
 			? await getReviewPanel(found.booking.id, installer.id, 'installer')
 			: null,
 		timeZone: ctx.timeZone,
-		gstRegistered: ctx.gstRegistered
+		gstRegistered: ctx.gstRegistered,
+		// Tapline's fee as it stands today (market settings), for the fee line under the quote.
+		fee: feeOf(await getMarketSettings())
 	};
 };
 
