@@ -27,6 +27,7 @@ import { appUrl } from './mail/app-url';
 import { requestQuoteDigest } from './boss';
 import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
+import { installerRatings } from './reviews';
 import { jobReach } from './matching';
 import { titleOrUntitled } from '$lib/posted-job';
 import { canQuote } from '$lib/vetting';
@@ -247,6 +248,7 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
 		.where(eq(quote.jobId, jobId))
 		.orderBy(asc(quote.createdAt));
 	const installerIds = rows.map((r) => r.quote.installerId);
+	const ratings = await installerRatings(installerIds);
 	const fits = installerIds.length
 		? await db
 				.select({ installerId: booking.installerId })
@@ -262,9 +264,10 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
 		onHold: r.quote.status === 'live' && !canQuote(r),
 		// Confirmed (paid) bookings: the honest count of fits Tapline has seen them take on.
 		fitsCompleted: fits.filter((f) => f.installerId === r.quote.installerId).length,
-		// No reviews exist yet; the ranking uses its stated prior for everyone.
-		ratingSum: 0,
-		ratingCount: 0
+		// Owners' reviews that show now (hidden ones cannot sway the ranking either): the sum of
+		// their overall stars, each the plain mean of the review's aspect stars, and how many.
+		ratingSum: ratings.get(r.quote.installerId)?.sum ?? 0,
+		ratingCount: ratings.get(r.quote.installerId)?.count ?? 0
 	}));
 }
 
