@@ -40,22 +40,29 @@ const MAX_SEARCH_WORDS = 6;
 /** At most this many photos on one note (Tapline's bound). */
 export const MAX_NOTE_PHOTOS = 6;
 
-/** Whether the installer may read and write fit notes: a refusal, or null when they may. */
-export async function fitNoteReaderProblem(installerId: string): Promise<Refusal | null> {
+/** The reader's standing: a refusal when they may not read fit notes, and their time zone. */
+async function readerStanding(installerId: string) {
 	const [row] = await db
 		.select({
 			vettingStatus: installerProfile.vettingStatus,
 			pausedReason: installerProfile.pausedReason,
+			timeZone: installerProfile.timeZone,
 			suspendedAt: user.suspendedAt,
 			deletedAt: user.deletedAt
 		})
 		.from(installerProfile)
 		.innerJoin(user, eq(user.id, installerProfile.userId))
 		.where(eq(installerProfile.userId, installerId));
-	if (!row || !canQuote(row) || row.suspendedAt || row.deletedAt) {
-		return refuse(403, FIT_NOTES_FOR_VETTED);
-	}
-	return null;
+	const problem =
+		!row || !canQuote(row) || row.suspendedAt || row.deletedAt
+			? refuse(403, FIT_NOTES_FOR_VETTED)
+			: null;
+	return { problem, timeZone: row?.timeZone ?? 'Australia/Adelaide' };
+}
+
+/** Whether the installer may read and write fit notes: a refusal, or null when they may. */
+export async function fitNoteReaderProblem(installerId: string): Promise<Refusal | null> {
+	return (await readerStanding(installerId)).problem;
 }
 
 /** The booking's vehicle and fit time, for the publish form; or why no note can be published. */
@@ -269,7 +276,7 @@ export async function notesForVehicle(
 
 /** One note with its photos and marks, for a vetted installer. */
 export async function getFitNote(installerId: string, noteId: string) {
-	const problem = await fitNoteReaderProblem(installerId);
+	const { problem, timeZone } = await readerStanding(installerId);
 	if (problem) return problem;
 	const [row] = await db
 		.select({ note: fitNote, businessName: installerProfile.businessName })
@@ -299,6 +306,7 @@ export async function getFitNote(installerId: string, noteId: string) {
 	const { bookingId: _booking, authorId, ...note } = row.note;
 	return {
 		ok: true as const,
+		timeZone,
 		note: { ...note, businessName: row.businessName },
 		mine: authorId === installerId,
 		photos,
