@@ -1,6 +1,7 @@
 import type { Browser } from '@playwright/test';
 import { expect, test } from './fixtures';
 import { closeQueries, newAccount, query } from './support/requests';
+import { SAMPLE_REQUEST } from '../../seed/sample-request';
 
 test.afterAll(closeQueries);
 
@@ -151,4 +152,51 @@ test('an installer publishes a fit note; a second vetted installer sees it besid
 	expect(await unvettedRes.text()).toContain('vetted installers in good standing');
 	for (const account of [unvetted, open.owner, fitted.owner]) await account.context.close();
 	await page.close();
+});
+
+// A kind of job no other spec posts, so the fits written here calibrate no other spec's sheet.
+const RARE = { bodyStyle: 'people-mover', cameras: 'front', power: 'battery-pack' } as const;
+
+test("the owner's review step counts fits of the body style and the sheet says what it rests on", async ({
+	browser
+}) => {
+	const installer = await vettedInstaller(browser, 'calibration-fitter');
+	const fitOwner = await newAccount(browser, 'owner', 'calibration-fit-owner');
+	// Three reported fits of the same kind of job, a day apart (the installer's slots must not overlap).
+	for (const [i, minutes] of [55, 60, 65].entries()) {
+		await query(
+			`with j as (insert into job (owner_id, status, title, body_style, cameras, power)
+				values ($1, 'booked', 'Earlier fit', $3, $4, $5) returning id),
+			q as (insert into quote (job_id, installer_id, status, total_cents)
+				select j.id, $2, 'accepted', 20000 from j returning id, job_id),
+			b as (insert into booking (job_id, quote_id, installer_id, owner_id, slot_start, slot_end,
+				status, hold_expires_at, total_cents, stage, reported_at)
+				select q.job_id, q.id, $2, $1, now() - make_interval(days => $6 + 3),
+					now() - make_interval(days => $6 + 3) + interval '1 hour', 'confirmed',
+					now() - interval '30 days', 20000, 'reported', now() from q returning id)
+			insert into fit_report (booking_id, installer_id, minutes_taken, details, filed_at)
+			select b.id, $2, $7, '{}'::jsonb, now() - make_interval(days => $6 + 2) from b`,
+			[fitOwner.id, installer.id, RARE.bodyStyle, RARE.cameras, RARE.power, i, minutes]
+		);
+	}
+	const owner = await newAccount(browser, 'owner', 'calibration-owner');
+	const draft = { ...SAMPLE_REQUEST, ...RARE, make: 'Corvan', model: 'Tessel', year: '2020' };
+	const [job] = await query<{ id: string }>(
+		`insert into job (owner_id, status, draft_step, draft, title, location_mode, suburb, postcode,
+			latitude, longitude, preferred_windows)
+		values ($1, 'drafting', 'review', $2::jsonb, '2020 Corvan Tessel', 'workshop', $3, $4, $5, $6,
+			jsonb_build_array(jsonb_build_object('date', to_char(now() + interval '9 days', 'YYYY-MM-DD'),
+				'window', 'morning')))
+		returning id`,
+		[owner.id, JSON.stringify(draft), FAR.suburb, FAR.postcode, FAR.lat, FAR.lng]
+	);
+	const page = await owner.context.newPage();
+	await page.goto(`/owner/jobs/${job!.id}/review`);
+	await expect(page.getByTestId('body-style-fits')).toContainText(
+		/reported \d+ fits of this body style \(people mover\) in the last year/
+	);
+	// The owner reads a count only: no installer's note or name.
+	await expect(page.getByTestId('body-style-fits')).not.toContainText('Fitting');
+	await expect(page.getByTestId('labour-calibration')).toContainText(/Total based on \d+ fits/);
+	for (const account of [installer, fitOwner, owner]) await account.context.close();
 });
