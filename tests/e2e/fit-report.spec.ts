@@ -171,6 +171,17 @@ test('the installer files the fit report on a phone; the owner reads the record 
 	await expect
 		.poll(() => photo.evaluate((img: HTMLImageElement) => img.naturalWidth))
 		.toBeGreaterThan(0);
+	// Nobody else reads the record, its PDF or its photos: 404, not even a hint it exists.
+	const photoSrc = await photo.getAttribute('src');
+	const stranger = await newAccount(browser, 'owner', 'fit-stranger');
+	for (const path of [
+		`/owner/bookings/${bookingId}/record`,
+		`/owner/bookings/${bookingId}/record.pdf`,
+		photoSrc!
+	]) {
+		expect((await stranger.request.get(path)).status(), path).toBe(404);
+	}
+	await stranger.context.close();
 	const pdf = await ownerPage.request.get(`/owner/bookings/${bookingId}/record.pdf`);
 	expect(pdf.status()).toBe(200);
 	expect(pdf.headers()['content-type']).toBe('application/pdf');
