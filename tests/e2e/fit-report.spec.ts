@@ -4,88 +4,17 @@
  * The booking is written straight into the database between two new accounts (the demo has no
  * bookings); payment and payout go through the payments fake as in the app.
  */
-import type { Page } from '@playwright/test';
-import { expect, jpegPhoto, signIn, test } from './fixtures';
-import { closeQueries, newAccount, newInstallerWithProfile, query } from './support/requests';
+import { expect, jpegPhoto, test } from './fixtures';
+import { PHONE, paidBooking } from './support/fit-booking';
+import { closeQueries, newAccount } from './support/requests';
 
 test.afterAll(closeQueries);
-
-const PASSWORD = 'long enough passphrase';
-const PHONE = { width: 375, height: 740 };
-
-const REQUEST = {
-	make: 'Demo',
-	model: 'Hatch',
-	year: '2019',
-	bodyStyle: 'hatchback',
-	fuseFamily: 'mini',
-	batteryType: 'agm',
-	startStop: false,
-	hybridOrEv: false,
-	curtainAirbags: 'no',
-	cameras: 'front-rear',
-	cameraSupply: 'owner',
-	power: 'hardwired-parking',
-	removeOldUnit: false
-};
-const LINES = [
-	{ kind: 'labour', label: 'Fitting', quantity: 1, unitCents: 22000, totalCents: 22000 },
-	{ kind: 'part', label: 'Mini blade fuse tap', quantity: 2, unitCents: 650, totalCents: 1300 }
-];
-
-/** A provisional booking of a new owner's job with a new installer, 200 days out. */
-async function provisionalBooking(ownerId: string, installerId: string, title: string) {
-	const [row] = await query<{ id: string }>(
-		`with j as (insert into job (owner_id, title, status, request, cameras, power, body_style, suburb)
-			values ($1, $3, 'booked', $4::jsonb, 'front-rear', 'hardwired-parking', 'hatchback', 'Walkerville')
-			returning id),
-		q as (insert into quote (job_id, installer_id, status, total_cents, lines)
-			select j.id, $2, 'accepted', 23300, $5::jsonb from j returning id, job_id)
-		insert into booking (job_id, quote_id, installer_id, owner_id, slot_start, slot_end,
-			status, hold_expires_at, total_cents)
-		select q.job_id, q.id, $2, $1, now() + interval '200 days', now() + interval '200 days 2 hours',
-			'awaiting_payment', now() + interval '30 minutes', 23300 from q
-		returning id`,
-		[ownerId, installerId, title, JSON.stringify(REQUEST), JSON.stringify(LINES)]
-	);
-	return row!.id;
-}
-
-async function payWithCard(page: Page, card: string) {
-	await page.getByLabel('Card number').fill(card);
-	await page.getByLabel('Expiry (MM / YY)').fill('12 / 34');
-	await page.getByLabel('CVC').fill('123');
-	await page.getByRole('button', { name: /^Pay \$/ }).click();
-}
 
 test('the installer files the fit report on a phone; the owner reads the record and confirms; the payout shows', async ({
 	browser
 }) => {
 	test.setTimeout(120_000);
-	const title = `Fit report hatch ${Date.now().toString(36)}`;
-	const owner = await newAccount(browser, 'owner', 'fit-owner');
-	const installer = await newInstallerWithProfile(browser, 'fit-installer');
-	await query(`UPDATE installer_profile SET vetting_status = 'approved' WHERE user_id = $1`, [
-		installer.id
-	]);
-	const phone = await (await browser.newContext({ viewport: PHONE })).newPage();
-	await signIn(phone, installer.email, PASSWORD);
-
-	// Payouts set up on the provider's page, as every installer does before quoting.
-	await phone.goto('/installer/payouts');
-	await phone.getByRole('button', { name: 'Set up payouts' }).click();
-	await phone.getByLabel('Business name').fill('Fit Report Test Fitting');
-	await phone.getByLabel('BSB').fill('000-000');
-	await phone.getByLabel('Account number').fill('000123456');
-	await phone.getByRole('button', { name: 'Agree and submit' }).click();
-	await expect(phone.getByTestId('payouts-status')).toHaveText('Payouts are set up.');
-
-	const bookingId = await provisionalBooking(owner.id, installer.id, title);
-	const ownerPage = await owner.context.newPage();
-	await ownerPage.goto(`/owner/bookings/${bookingId}`);
-	await ownerPage.getByRole('button', { name: 'Pay into held funds' }).click();
-	await payWithCard(ownerPage, '4242 4242 4242 4242');
-	await expect(ownerPage.getByTestId('booking-status')).toHaveText('Confirmed');
+	const { bookingId, title, ownerPage, phone } = await paidBooking(browser, 'fit');
 	await expect(ownerPage.getByTestId('fit-stage')).toContainText('waiting to be fitted');
 
 	// On the day: the report, on a phone. Skipped items are refused, each at its place.

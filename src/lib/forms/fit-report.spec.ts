@@ -120,6 +120,8 @@ describe('fit report schema', () => {
 			messagesAt(fitReportRearSchema.safeParse({ ...FULL, minutesTaken: 5 })).minutesTaken
 		).toBe('Enter between 10 and 720 minutes');
 		expect(fitReportRearSchema.safeParse({ ...FULL, minutesTaken: 90.5 }).success).toBe(false);
+		const noMinutes = fitReportRearSchema.safeParse({ ...FULL, minutesTaken: undefined });
+		expect(messagesAt(noMinutes).minutesTaken).toBe('Enter the minutes on the vehicle');
 	});
 });
 

@@ -144,7 +144,9 @@ const fields = {
 		})
 		.max(MINUTES_TAKEN_MAX, {
 			error: `Enter between ${MINUTES_TAKEN_MIN} and ${MINUTES_TAKEN_MAX} minutes`
-		}),
+		})
+		// Optional here and required below, so an empty form shows an empty field, not 0.
+		.optional(),
 	notes: textField()
 		.trim()
 		.max(NOTES_MAX, {
@@ -193,6 +195,7 @@ function checkReport(data: Raw, ctx: z.RefinementCtx, rearCamera: boolean) {
 		if (!data.groundPoint) problem('groundPoint', 'Say where the ground is bolted');
 		if (!data.groundBareMetal) problem('groundBareMetal', 'Ground only to bare metal');
 	}
+	if (data.minutesTaken === undefined) problem('minutesTaken', 'Enter the minutes on the vehicle');
 	if (data.cutOff === 'done' && data.cutOffVolts === undefined) {
 		problem('cutOffVolts', 'Enter the cut-off voltage, e.g. 12.0');
 	}

@@ -101,6 +101,12 @@ export async function fileFitReport(
 	const found = await getReportableBooking(bookingId, installerId);
 	if (!found) return refuse(404, NOT_YOUR_BOOKING);
 	if (!found.canReport) return refuse(409, found.why ?? 'No fit report can be filed now.');
+	if (form.minutesTaken === undefined) {
+		return refuse(400, 'Enter the minutes on the vehicle', {
+			fields: { minutesTaken: 'Enter the minutes on the vehicle' }
+		});
+	}
+	const minutesTaken = form.minutesTaken;
 	const files = photos.filter((f) => f instanceof File && f.size > 0);
 	const countProblem = photoCountProblem(files.length);
 	if (countProblem) return refuse(400, countProblem, { fields: { photos: countProblem } });
@@ -137,7 +143,7 @@ export async function fileFitReport(
 					bookingId,
 					visit,
 					installerId,
-					minutesTaken: form.minutesTaken,
+					minutesTaken,
 					details,
 					notes: form.notes || null,
 					filedAt: now
