@@ -21,6 +21,9 @@ test('the installer files the fit report on a phone; the owner reads the record 
 	await phone.goto(`/installer/bookings/${bookingId}/report`);
 	await expect(phone.getByRole('heading', { name: 'Fit report' })).toBeVisible();
 	await expect(phone.getByText('Before you sign off')).toBeVisible();
+	expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+		PHONE.width
+	);
 	await phone.getByRole('button', { name: 'File the fit report' }).click();
 	await expect(phone.getByTestId('item-tapOrientation')).toContainText(
 		'Tick this, or mark it "does not apply" and say why'
