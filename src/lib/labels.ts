@@ -3,6 +3,7 @@
  * every page and in every e-mail; no raw enum value reaches a screen.
  */
 import type { BoardSort } from './board';
+import type { ReviewAspect } from './reviews';
 import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
 import type { FuseFamily } from './scope/fuses';
@@ -287,4 +288,14 @@ export const FIT_FUSE_FAMILY_LABELS: Record<FuseFamily, string> = {
 	'low-profile-mini': 'Low-profile mini blade',
 	micro2: 'Micro2',
 	micro3: 'Micro3'
+};
+
+/** The aspects each side of a booking rates the other on ($lib/reviews). */
+export const REVIEW_ASPECT_LABELS: Record<ReviewAspect, string> = {
+	workmanship: 'Workmanship',
+	tidiness: 'Tidiness',
+	communication: 'Communication',
+	punctuality: 'Punctuality',
+	vehicleReady: 'Vehicle ready and accessible',
+	accurateJob: 'Accurate job description'
 };

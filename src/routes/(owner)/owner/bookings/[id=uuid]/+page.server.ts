@@ -8,6 +8,7 @@ import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalFail } from '$lib/server/http/respond';
 import { cancelPaidBooking, startHeldFundsPayment } from '$lib/server/payments';
 import { getPaymentState } from '$lib/server/receipts';
+import { getReviewPanel } from '$lib/server/reviews';
 import { lateFeeCents } from '$lib/server/stripe';
 import { formatSlotLabel } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
@@ -69,6 +70,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			confirmBy: b.confirmBy ? formatDayTime(b.confirmBy, row.timeZone, now) : null,
 			mayAnswer: b.stage === 'reported' && b.confirmBy !== null && now < b.confirmBy
 		},
+		reviews: await getReviewPanel(b.id, owner.id, 'owner', now),
 		jobId: row.jobId,
 		title: titleOrUntitled(row.title),
 		businessName: row.businessName,
