@@ -50,7 +50,9 @@ export const ADMIN_ACTION_LABELS: Record<string, string> = {
 	reinstate: 'Lifted the suspension',
 	'force-password-reset': 'Asked for a new password',
 	settings: 'Changed the market settings',
-	'admin-invite': 'Made an admin account'
+	'admin-invite': 'Made an admin account',
+	release: 'Released held funds to the installer',
+	refund: 'Refunded held funds to the owner'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {
