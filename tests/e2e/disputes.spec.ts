@@ -60,7 +60,7 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 		[bookingId]
 	);
 	await ownerPage.reload();
-	await ownerPage.getByTestId('raise-problem-link').getByRole('link').click();
+	await ownerPage.getByTestId('fit-stage').getByRole('link', { name: 'Raise a problem' }).click();
 	await expect(ownerPage.getByRole('heading', { name: 'Raise a problem' })).toBeVisible();
 	await ownerPage.getByLabel('Cable visible or trim damaged').check();
 	await ownerPage

@@ -11,6 +11,7 @@ import * as authForms from '$lib/forms/auth';
 import * as disputeForms from '$lib/forms/dispute';
 import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as fitNoteForms from '$lib/forms/fit-note';
+import * as fitReportForms from '$lib/forms/fit-report';
 import * as jobForms from '$lib/forms/job';
 import * as threadForms from '$lib/forms/thread';
 import * as vettingForms from '$lib/forms/vetting';
@@ -22,6 +23,7 @@ const MODULES = {
 	authForms,
 	disputeForms,
 	fitNoteForms,
+	fitReportForms,
 	jobForms,
 	threadForms,
 	vettingForms,
@@ -73,7 +75,9 @@ describe('every free-text field refuses NUL characters', () => {
 				'disputeForms.raiseProblemSchema.description',
 				'disputeForms.settleSchema.note',
 				'fitNoteForms.fitNoteSchema.pitfalls',
-				'fitNoteForms.fitNoteMarkSchema.comment'
+				'fitNoteForms.fitNoteMarkSchema.comment',
+				'fitReportForms.fitReportSchema.groundPoint',
+				'fitReportForms.fitReportRearSchema.rearDemisterReason'
 			])
 		);
 	});

@@ -297,8 +297,8 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 			slotStart: booking.slotStart,
 			slotEnd: booking.slotEnd,
 			status: booking.status,
-			stage: booking.stage,
-			holdExpiresAt: booking.holdExpiresAt
+			holdExpiresAt: booking.holdExpiresAt,
+			stage: booking.stage
 		})
 		.from(booking)
 		.where(
