@@ -16,7 +16,11 @@ let cluster: Cluster | undefined;
 
 test.afterAll(async () => {
 	if (cluster && !cluster.isRunning()) cluster.start();
-	if (app && app.process.exitCode !== null) console.error(`The app exited:\n${app.output()}`);
+	if (app && (app.process.exitCode !== null || app.process.signalCode !== null)) {
+		console.error(
+			`The app ended (${String(app.process.exitCode ?? app.process.signalCode)}):\n${app.output()}`
+		);
+	}
 	await app?.stop();
 	await closeQueries();
 });
@@ -87,7 +91,8 @@ test('a burst of writes through a PostgreSQL restart: 303 or 503 each, nothing h
 				(err: unknown) => {
 					// A connection the app dropped would be a failure of its own: keep it visible.
 					statuses.push(0);
-					throw err;
+					const ended = app?.process.exitCode ?? app?.process.signalCode ?? 'still running';
+					throw new Error(`request failed; the app: ${String(ended)}`, { cause: err });
 				}
 			)
 		);
