@@ -10,6 +10,7 @@ import * as accountForms from '$lib/forms/account';
 import * as authForms from '$lib/forms/auth';
 import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as fitNoteForms from '$lib/forms/fit-note';
+import * as fitReportForms from '$lib/forms/fit-report';
 import * as jobForms from '$lib/forms/job';
 import * as threadForms from '$lib/forms/thread';
 import * as vettingForms from '$lib/forms/vetting';
@@ -20,6 +21,7 @@ const MODULES = {
 	accountForms,
 	authForms,
 	fitNoteForms,
+	fitReportForms,
 	jobForms,
 	threadForms,
 	vettingForms,
@@ -69,7 +71,9 @@ describe('every free-text field refuses NUL characters', () => {
 				'threadForms.threadMessageSchema.body',
 				'quoteForms.quoteFormSchema.message',
 				'fitNoteForms.fitNoteSchema.pitfalls',
-				'fitNoteForms.fitNoteMarkSchema.comment'
+				'fitNoteForms.fitNoteMarkSchema.comment',
+				'fitReportForms.fitReportSchema.groundPoint',
+				'fitReportForms.fitReportRearSchema.rearDemisterReason'
 			])
 		);
 	});
