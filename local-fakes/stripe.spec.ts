@@ -280,6 +280,33 @@ describe('payments fake', () => {
 		await fetch(`${fake.url}/control/fail-next`, { method: 'POST', body: '{"count":1}' });
 		await expect(stripe.balance.retrieve()).rejects.toMatchObject({ statusCode: 500 });
 		expect((await stripe.balance.retrieve()).object).toBe('balance');
+		// Letting one through first: the second request fails, the third passes.
+		await fetch(`${fake.url}/control/fail-next`, { method: 'POST', body: '{"count":1,"skip":1}' });
+		expect((await stripe.balance.retrieve()).object).toBe('balance');
+		await expect(stripe.balance.retrieve()).rejects.toMatchObject({ statusCode: 500 });
+		expect((await stripe.balance.retrieve()).object).toBe('balance');
+	});
+
+	it('does the work of a slow-next call at once and holds only its answer', async () => {
+		const fake = await start();
+		await fetch(`${fake.url}/control/slow-next`, {
+			method: 'POST',
+			body: '{"count":1,"ms":60000}'
+		});
+		const quick = new Stripe('sk_test_spec', {
+			host: '127.0.0.1',
+			port: fake.port,
+			protocol: 'http',
+			maxNetworkRetries: 0,
+			timeout: 300
+		});
+		await expect(
+			quick.checkout.sessions.create(checkout, { idempotencyKey: 'held' })
+		).rejects.toMatchObject({ type: 'StripeConnectionError' });
+		// The session exists although its answer never came; the same key gives it back at once.
+		const again = await quick.checkout.sessions.create(checkout, { idempotencyKey: 'held' });
+		expect(again.lastResponse.headers['idempotent-replayed']).toBe('true');
+		expect(again.status).toBe('open');
 	});
 
 	it('keeps its objects in the data folder across restarts, and starts with the demo accounts', async () => {

@@ -303,8 +303,13 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 	};
 
 	// Switches, set through /control (never kept on disk).
-	let failNext = { count: 0, status: 500 };
+	// `skip` lets that many requests through before the failures start (fail the second of two).
+	let failNext = { count: 0, status: 500, skip: 0 };
 	let delayMs = 0;
+	// The next `count` API writes (POSTs) do their work (and keep it for their idempotency key),
+	// then hold the answer for `ms`: a provider slow to answer, not one that did nothing. Reads
+	// stay quick, so a test can look at what the provider holds meanwhile.
+	let slowNext = { count: 0, ms: 0 };
 	let duplicateNext = 0;
 	let webhookUrl = options.webhookUrl ?? null;
 	let webhookSecret = options.webhookSecret ?? null;
@@ -314,6 +319,18 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 	const timers = new Set<NodeJS.Timeout>();
 	const inFlight = new Set<string>();
 	let base = '';
+	// Held answers, released at once when the fake closes.
+	const holds = new Set<() => void>();
+	const hold = (ms: number) =>
+		new Promise<void>((resolve) => {
+			const done = () => {
+				clearTimeout(timer);
+				holds.delete(done);
+				resolve();
+			};
+			const timer = setTimeout(done, ms);
+			holds.add(done);
+		});
 
 	// ---------------------------------------------------------------- events and webhooks
 
@@ -914,7 +931,9 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 			);
 			return;
 		}
-		if (failNext.count > 0) {
+		if (failNext.count > 0 && failNext.skip > 0) {
+			failNext.skip--;
+		} else if (failNext.count > 0) {
 			failNext.count--;
 			answer(
 				failNext.status,
@@ -928,6 +947,8 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 			return;
 		}
 		const method = req.method ?? 'GET';
+		const holdAnswerMs = method === 'POST' && slowNext.count > 0 ? slowNext.ms : 0;
+		if (holdAnswerMs > 0) slowNext.count--;
 		const raw =
 			method === 'GET' ? url.search.slice(1) : (await readBody(req, 1024 * 1024)).toString('utf8');
 		const params = qs.parse(raw, { depth: 10, arrayLimit: 100 }) as Obj;
@@ -988,6 +1009,7 @@ export async function startStripeFake(options: StripeFakeOptions): Promise<Strip
 			// Stripe keeps the result of a request that began executing, errors included.
 			if (scopedKey) state.idempotency[scopedKey] = { fingerprint, status, body };
 			if (method === 'POST') save();
+			if (holdAnswerMs > 0) await hold(holdAnswerMs);
 			answer(status, body);
 		} finally {
 			if (scopedKey) inFlight.delete(scopedKey);
@@ -1240,11 +1262,18 @@ ${problem ? `<p class="problem" role="alert">${escapeHtml(problem)}</p>` : ''}
 				: {};
 		const path = url.pathname.slice('/control'.length);
 		if (path === '/fail-next' && req.method === 'POST') {
-			failNext = { count: Number(body.count ?? 1), status: Number(body.status ?? 500) };
+			failNext = {
+				count: Number(body.count ?? 1),
+				status: Number(body.status ?? 500),
+				skip: Number(body.skip ?? 0)
+			};
 			sendJson(res, 200, failNext);
 		} else if (path === '/slow' && req.method === 'POST') {
 			delayMs = Number(body.ms ?? 0);
 			sendJson(res, 200, { ms: delayMs });
+		} else if (path === '/slow-next' && req.method === 'POST') {
+			slowNext = { count: Number(body.count ?? 1), ms: Number(body.ms ?? 0) };
+			sendJson(res, 200, slowNext);
 		} else if (path === '/duplicate-next' && req.method === 'POST') {
 			duplicateNext = Number(body.count ?? 1);
 			sendJson(res, 200, { count: duplicateNext });
@@ -1331,6 +1360,7 @@ ${problem ? `<p class="problem" role="alert">${escapeHtml(problem)}</p>` : ''}
 		close: async () => {
 			for (const timer of timers) clearTimeout(timer);
 			timers.clear();
+			for (const done of [...holds]) done();
 			await server.close();
 		}
 	};

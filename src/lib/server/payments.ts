@@ -11,7 +11,7 @@
  * free (the owner meant to book and nobody else took the time); otherwise it is refunded in full
  * at once and the owner is told why.
  */
-import { and, count, eq, inArray, ne, sql } from 'drizzle-orm';
+import { and, count, eq, inArray, isNotNull, isNull, ne, sql } from 'drizzle-orm';
 import { cancellationSettlement, type CancelledBy } from '$lib/cancellation';
 import { releaseSplit } from '$lib/fees';
 import { formatAud } from '$lib/money';
@@ -624,6 +624,20 @@ export async function releaseHeldFunds(
 	now = new Date(),
 	audit?: AdminNote
 ): Promise<ReleaseOutcome> {
+	// Asked for in a commit of its own before the provider is called: if the process dies during
+	// the call, the release schedule still finds the booking, and the idempotency key makes its
+	// retry return the transfer the provider may already have made.
+	await db
+		.update(payment)
+		.set({ releaseRequestedAt: sql`coalesce(${payment.releaseRequestedAt}, ${now})` })
+		.where(
+			and(
+				eq(payment.bookingId, bookingId),
+				isNotNull(payment.paidAt),
+				isNull(payment.releasedAt),
+				sql`exists (select 1 from ${booking} where ${booking.id} = ${bookingId} and ${booking.status} = 'confirmed')`
+			)
+		);
 	try {
 		return await withMail(async (tx, mail) => {
 			const row = await lockBooking(tx, bookingId);

@@ -31,9 +31,28 @@ const ADELAIDE = { tz: 'Australia/Adelaide' };
 let starting: Promise<PgBoss> | undefined;
 let running: PgBoss | undefined;
 
+/**
+ * pg-boss 10 does not await marking a finished job complete or failed (`Manager.complete` and
+ * `Manager.fail`, called from its worker without `await`). When the database goes away at that
+ * moment the rejection is unhandled and Node ends the process (found by the database-restart
+ * drill). The job stays active, expires and runs again, so such a rejection is only logged; any
+ * other unhandled rejection still ends the process, as Node's default does.
+ */
+function survivePgBossLateWrites(): void {
+	process.on('unhandledRejection', (reason) => {
+		const stack = reason instanceof Error ? (reason.stack ?? '') : '';
+		if (/Manager\.(complete|fail) .*pg-boss/.test(stack)) {
+			console.error('[queue] could not record a job result; it will run again:', String(reason));
+			return;
+		}
+		throw reason;
+	});
+}
+
 /** Starts the queue and its workers once per process. */
 export function startQueue(): Promise<PgBoss> {
 	starting ??= (async () => {
+		survivePgBossLateWrites();
 		const boss = new PgBoss({
 			connectionString: env.DATABASE_URL,
 			schema: 'pgboss',

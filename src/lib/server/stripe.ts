@@ -1,7 +1,8 @@
 /**
  * The one payment-provider client: the `stripe` SDK configured from the environment. In
  * production only the keys are set; locally and in tests STRIPE_API_HOST, STRIPE_API_PORT and
- * STRIPE_API_PROTOCOL point it elsewhere (the scripts set them). Nothing else builds a client.
+ * STRIPE_API_PROTOCOL point it elsewhere (the scripts set them); STRIPE_TIMEOUT_MS bounds each
+ * attempt. Nothing else builds a client.
  */
 import Stripe from 'stripe';
 import { env } from '$env/dynamic/private';
@@ -15,9 +16,14 @@ let clientKey = '';
 export function stripe(): Stripe {
 	const key = env.STRIPE_SECRET_KEY;
 	if (!key) throw new Error('STRIPE_SECRET_KEY is not set');
-	const signature = [key, env.STRIPE_API_HOST, env.STRIPE_API_PORT, env.STRIPE_API_PROTOCOL].join(
-		'|'
-	);
+	const timeout = Number(env.STRIPE_TIMEOUT_MS) > 0 ? Number(env.STRIPE_TIMEOUT_MS) : 20_000;
+	const signature = [
+		key,
+		env.STRIPE_API_HOST,
+		env.STRIPE_API_PORT,
+		env.STRIPE_API_PROTOCOL,
+		timeout
+	].join('|');
 	if (client && clientKey === signature) return client;
 	const protocol = env.STRIPE_API_PROTOCOL === 'http' ? 'http' : 'https';
 	client = new Stripe(key, {
@@ -26,7 +32,8 @@ export function stripe(): Stripe {
 		protocol,
 		// A retried POST carries the same idempotency key, so it cannot pay twice.
 		maxNetworkRetries: 1,
-		timeout: 20_000
+		// STRIPE_TIMEOUT_MS (default 20 s): how long one attempt waits for an answer.
+		timeout
 	});
 	clientKey = signature;
 	return client;
