@@ -6,6 +6,7 @@ import { isAccountEmail, renderAccountEmail, type AccountEmail } from './account
 import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } from './marketplace';
 import { isPaymentEmail, renderPaymentEmail, type PaymentEmail } from './payments';
 import { isCompletionEmail, renderCompletionEmail, type CompletionEmail } from './completion';
+import { isScheduleEmail, renderScheduleEmail, type ScheduleEmail } from './schedule';
 
 import { renderBlock, type RenderedEmail } from './layout';
 
@@ -42,7 +43,8 @@ export type EmailTemplate =
 	| MarketplaceEmail
 	| AccountEmail
 	| PaymentEmail
-	| CompletionEmail;
+	| CompletionEmail
+	| ScheduleEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -66,6 +68,7 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isAccountEmail(message)) return renderAccountEmail(message);
 	if (isPaymentEmail(message)) return renderPaymentEmail(message);
 	if (isCompletionEmail(message)) return renderCompletionEmail(message);
+	if (isScheduleEmail(message)) return renderScheduleEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {

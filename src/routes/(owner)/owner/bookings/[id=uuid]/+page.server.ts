@@ -8,6 +8,7 @@ import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalFail } from '$lib/server/http/respond';
 import { cancelPaidBooking, startHeldFundsPayment } from '$lib/server/payments';
 import { getPaymentState } from '$lib/server/receipts';
+import { getBookingTimes } from '$lib/server/rescheduling';
 import { lateFeeCents } from '$lib/server/stripe';
 import { formatSlotLabel } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
@@ -20,7 +21,10 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	const row = await getOwnerBooking(params.id, owner.id);
 	if (!row) error(404, NOT_FOUND);
 	const b = row.booking;
-	const money = await getPaymentState(b.id);
+	const [money, times] = await Promise.all([
+		getPaymentState(b.id),
+		getBookingTimes(b.id, { id: owner.id, side: 'owner' })
+	]);
 	const now = new Date();
 	const status =
 		money.paidAt && b.status === 'awaiting_payment' ? b.status : bookingStatusAt(b, now);
@@ -58,6 +62,15 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			confirming: url.searchParams.has('paid') && b.status === 'awaiting_payment'
 		},
 		cancelPreview,
+		proposal: times?.open
+			? {
+					mine: times.open.mine,
+					slot: formatSlotLabel(
+						{ start: times.open.slotStart, end: times.open.slotEnd },
+						row.timeZone
+					)
+				}
+			: null,
 		jobId: row.jobId,
 		title: titleOrUntitled(row.title),
 		businessName: row.businessName,
