@@ -32,8 +32,14 @@ export function fitPlace(p: PlaceFacts): string {
 	if (p.locationMode === 'workshop') {
 		return p.workshopAddress ?? `The installer's workshop, ${p.installerSuburb}`;
 	}
+	const line = p.addressLine?.trim() ?? '';
 	const area = [p.suburb, p.postcode].filter(Boolean).join(' ');
-	return [p.addressLine, area].filter(Boolean).join(', ') || 'Address not given';
+	if (!line) return area || 'Address not given';
+	// Many owners type the suburb into the street line already: add only what is missing.
+	if (p.suburb && line.toLowerCase().includes(p.suburb.toLowerCase())) {
+		return p.postcode && !line.includes(p.postcode) ? `${line} ${p.postcode}` : line;
+	}
+	return area ? `${line}, ${area}` : line;
 }
 
 const placeColumns = {
