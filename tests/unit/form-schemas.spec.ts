@@ -10,6 +10,7 @@ import * as accountForms from '$lib/forms/account';
 import * as authForms from '$lib/forms/auth';
 import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as jobForms from '$lib/forms/job';
+import * as rescheduleForms from '$lib/forms/reschedule';
 import * as threadForms from '$lib/forms/thread';
 import * as vettingForms from '$lib/forms/vetting';
 import * as jobRequest from '$lib/scope/request';
@@ -19,6 +20,7 @@ const MODULES = {
 	accountForms,
 	authForms,
 	jobForms,
+	rescheduleForms,
 	threadForms,
 	vettingForms,
 	jobRequest,
@@ -65,7 +67,8 @@ describe('every free-text field refuses NUL characters', () => {
 				'jobRequest.jobRequestSchema.model',
 				'vettingForms.decisionSchema.message',
 				'threadForms.threadMessageSchema.body',
-				'quoteForms.quoteFormSchema.message'
+				'quoteForms.quoteFormSchema.message',
+				'rescheduleForms.proposeTimeSchema.note'
 			])
 		);
 	});
@@ -83,7 +86,8 @@ describe('date fields refuse days that do not exist', () => {
 		{ field: 'blockedDateSchema.day', schema: vettingForms.blockedDateSchema, key: 'day' },
 		{ field: 'insuranceSchema.expiresOn', schema: vettingForms.insuranceSchema, key: 'expiresOn' },
 		{ field: 'quoteFormSchema.expiresOn', schema: quoteForms.quoteFormSchema, key: 'expiresOn' },
-		{ field: 'quoteFormSchema.slotDate', schema: quoteForms.quoteFormSchema, key: 'slotDate' }
+		{ field: 'quoteFormSchema.slotDate', schema: quoteForms.quoteFormSchema, key: 'slotDate' },
+		{ field: 'proposeTimeSchema.date', schema: rescheduleForms.proposeTimeSchema, key: 'date' }
 	];
 
 	it.each(dateFields)('$field', ({ schema, key }) => {
