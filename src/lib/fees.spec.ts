@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { feeSettingsFrom, releaseSplit } from './fees';
+import { DEFAULT_FEE, feeRuleText, feeSettingsFrom, releaseSplit } from './fees';
 
 describe('releaseSplit', () => {
 	it('takes 10 % of $550.00: fee $55.00 with $5.00 GST, $495.00 to the installer', () => {
@@ -57,5 +57,14 @@ describe('feeSettingsFrom', () => {
 			percentBasisPoints: 1000,
 			minimumCents: 1500
 		});
+	});
+});
+
+describe('feeRuleText', () => {
+	it('says the rule as the settings page sets it (Tapline’s default: 10 %, at least $15)', () => {
+		expect(feeRuleText(DEFAULT_FEE)).toBe('10 % of the total, at least $15.00');
+		expect(feeRuleText({ percentBasisPoints: 950, minimumCents: 1234 })).toBe(
+			'9.5 % of the total, at least $12.34'
+		);
 	});
 });

@@ -66,3 +66,15 @@ export function feeSettingsFrom(
 		minimumCents: Number.isSafeInteger(m) && m >= 0 ? m : DEFAULT_FEE.minimumCents
 	};
 }
+
+/** The fee rule in words, e.g. "10 % of the total, at least $15.00". */
+export function feeRuleText(settings: FeeSettings): string {
+	const percent = (settings.percentBasisPoints / 100).toLocaleString('en-AU', {
+		maximumFractionDigits: 2
+	});
+	const minimum = (settings.minimumCents / 100).toLocaleString('en-AU', {
+		style: 'currency',
+		currency: 'AUD'
+	});
+	return `${percent} % of the total, at least ${minimum}`;
+}

@@ -47,7 +47,8 @@ export const ADMIN_ACTION_LABELS: Record<string, string> = {
 	suspend: 'Suspended the account',
 	reinstate: 'Lifted the suspension',
 	'force-password-reset': 'Asked for a new password',
-	settings: 'Changed the market settings'
+	settings: 'Changed the market settings',
+	'admin-invite': 'Made an admin account'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {

@@ -8,6 +8,10 @@ test('the admin overview shows the market with a chart, a map and the same figur
 	const figures = page.getByTestId('market-figures');
 	await expect(figures).toContainText('First quote within a day');
 	await expect(figures).toContainText('Median time to first quote');
+	// The money side, from the ledger (tests/integration/money-metrics.test.ts checks the sums).
+	for (const label of ['Fee revenue', 'Paid out to installers', 'Refunds']) {
+		await expect(figures).toContainText(label);
+	}
 	// The week table adds up to the headline count of jobs posted.
 	await page.getByText('The figures, week by week').click();
 	const rows = page.getByTestId('week-row');

@@ -20,6 +20,14 @@ test('an admin changes the fee with a reason, sees it in the audit, and an owner
 	await expect(page.getByText(/Saved: 1 setting changed/)).toBeVisible();
 	await expect(page.getByTestId('settings-changes')).toContainText('Trial of a new fee');
 	await expect(page.getByTestId('settings-changes')).toContainText(`${before} % → 12.5 %`);
+	// The next quote's fee line uses it: an installer opening a job to quote sees 12.5 %.
+	const installer = await browser.newPage();
+	await signIn(installer, DEMO.installer);
+	await installer.goto('/installer/jobs');
+	await installer.getByTestId('job-row').first().getByRole('link').first().click();
+	await expect(installer.getByTestId('quote-fee-rule')).toContainText(
+		'12.5 % of the total, at least $'
+	);
 	// Back to where it was, so other journeys see the starting fee.
 	await fee.fill(before);
 	await page.getByLabel('Reason (kept in the audit trail)').fill('End of the trial');

@@ -9,7 +9,7 @@ import {
 	verifyEmailToken
 } from '$lib/server/accounts';
 import { db } from '$lib/server/db';
-import { emailOutbox, emailToken, session, user } from '$lib/server/db/schema';
+import { adminAudit, emailOutbox, emailToken, session, user } from '$lib/server/db/schema';
 
 const ORIGIN = 'http://tapline.test';
 // Links in e-mails come from the configured origin (appUrl), whoever causes them.
@@ -212,15 +212,23 @@ describe('password reset links and their limits (issue 11, item 7)', () => {
 describe('createAdminAccount', () => {
 	it('lets an admin create an admin with an invitation link, and nobody else', async () => {
 		const inviter = {
-			id: 'x',
-			email: 'boss@example.test',
+			id: crypto.randomUUID(),
+			email: freshEmail(),
 			role: 'admin' as const,
 			displayName: 'Boss'
 		};
+		await db.insert(user).values({ ...inviter, passwordHash: 'unused' });
 		const email = freshEmail();
 		const created = await createAdminAccount(inviter, { email, displayName: 'New Admin' });
 		if (!created.ok) throw new Error(created.message);
 		expect(created.user.role).toBe('admin');
+		// Audited in the same transaction: who made whom an admin.
+		const audit = await db
+			.select()
+			.from(adminAudit)
+			.where(eq(adminAudit.targetUserId, created.user.id));
+		expect(audit).toHaveLength(1);
+		expect(audit[0]).toMatchObject({ actorId: inviter.id, action: 'admin-invite' });
 		const [mail] = await db.select().from(emailOutbox).where(eq(emailOutbox.toAddress, email));
 		expect(mail?.template).toBe('admin-invite');
 		expect(mail?.text).toContain('Boss created an admin account');

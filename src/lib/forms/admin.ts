@@ -50,6 +50,13 @@ export const bookingQuerySchema = z.object({
 	page: z.coerce.number().int().min(1).max(100_000).catch(1)
 });
 
+/** The admin payout list's query string (and the CSV export's): release days, both included. */
+export const payoutQuerySchema = z.object({
+	from: queryDate,
+	to: queryDate,
+	page: z.coerce.number().int().min(1).max(100_000).catch(1)
+});
+
 /**
  * The market settings as an admin types them (percent and dollars); the server keeps basis
  * points and cents. Bounds are Tapline's own sanity limits, said in each message.

@@ -6,7 +6,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { and, eq, gt, isNull } from 'drizzle-orm';
 import { endAllSessions } from './auth';
 import { db, type Tx } from './db';
-import { emailToken, user, type Role, type User } from './db/schema';
+import { adminAudit, emailToken, user, type Role, type User } from './db/schema';
 import { appUrl } from './mail/app-url';
 import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
@@ -346,6 +346,14 @@ export async function createAdminAccount(
 				displayName: user.displayName
 			});
 		if (!created) return emailTaken();
+		await tx.insert(adminAudit).values({
+			actorId: invitedBy.id,
+			action: 'admin-invite',
+			targetUserId: created.id,
+			before: null,
+			after: { email: created.email, displayName: created.displayName, role: 'admin' },
+			reason: null
+		});
 		const token = await issueToken(tx, created.id, 'reset-password', RESET_TTL_MS);
 		await mail.send(created.email, {
 			template: 'admin-invite',

@@ -1,5 +1,6 @@
 import { requireRole } from '$lib/server/http/guards';
 import { getMarketMetrics, getPlatformCounts } from '$lib/server/metrics';
+import { getMoneyMetrics } from '$lib/server/money-metrics';
 import type { PageServerLoad } from './$types';
 
 /** Weeks the overview looks back over, the current one included. */
@@ -7,9 +8,11 @@ const OVERVIEW_WEEKS = 12;
 
 export const load: PageServerLoad = async () => {
 	requireRole('admin');
-	const [counts, market] = await Promise.all([
+	const now = new Date();
+	const [counts, market, money] = await Promise.all([
 		getPlatformCounts(),
-		getMarketMetrics(new Date(), OVERVIEW_WEEKS)
+		getMarketMetrics(now, OVERVIEW_WEEKS),
+		getMoneyMetrics(now, OVERVIEW_WEEKS)
 	]);
-	return { counts, market, weeks: OVERVIEW_WEEKS };
+	return { counts, market, money, weeks: OVERVIEW_WEEKS };
 };

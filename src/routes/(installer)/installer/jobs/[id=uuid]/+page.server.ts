@@ -14,6 +14,7 @@ import { quoteFormDefaults } from './quote-defaults';
 import { CONTACTS_HIDDEN_NOTE as HIDDEN_NOTE } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { cancelPaidBooking } from '$lib/server/payments';
+import { feeOf, getMarketSettings } from '$lib/server/settings';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = 'There is no such job on your board.';
@@ -84,7 +85,9 @@ export const load: PageServerLoad = async ({ params }) => {
 		form,
 		askForm,
 		timeZone: ctx.timeZone,
-		gstRegistered: ctx.gstRegistered
+		gstRegistered: ctx.gstRegistered,
+		// Tapline's fee as it stands today (market settings), for the fee line under the quote.
+		fee: feeOf(await getMarketSettings())
 	};
 };
 
