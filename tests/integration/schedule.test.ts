@@ -10,7 +10,13 @@ import { bookQuote } from '$lib/server/bookings';
 import { getBookingCalendarFile, getInstallerWeek } from '$lib/server/booking-calendar';
 import { openConfirmationWindow } from '$lib/server/completion';
 import { db } from '$lib/server/db';
-import { booking, emailOutbox, rescheduleProposal, user } from '$lib/server/db/schema';
+import {
+	booking,
+	emailOutbox,
+	installerBlockedDate,
+	rescheduleProposal,
+	user
+} from '$lib/server/db/schema';
 import { withMail } from '$lib/server/mail/outbox';
 import { sendDueReminders } from '$lib/server/reminders';
 import {
@@ -201,6 +207,15 @@ describe('proposing and answering a new time', () => {
 		);
 		expect(b.slotStart).toEqual(slotOn(workday(0), '09:00', '11:00').start);
 		expect(same).toMatchObject({ status: 400 });
+		// A day the installer marked off is refused to both sides, with the date at fault.
+		await db
+			.insert(installerBlockedDate)
+			.values({ installerId: made.chosen.installerId, day: workday(4) });
+		for (const side of [made.owner, made.installer]) {
+			expect(
+				await proposeNewTime(made.bookingId, side, time(workday(4), '09:00', '11:00'))
+			).toMatchObject({ status: 400, fields: { date: expect.any(String) } });
+		}
 		// The installer may offer their own evening.
 		expect(
 			(await proposeNewTime(made.bookingId, made.installer, time(workday(3), '17:30', '19:00'))).ok

@@ -12,6 +12,7 @@ import { and, desc, eq, gt, lt, ne, or } from 'drizzle-orm';
 import { titleOrUntitled } from '$lib/posted-job';
 import { checkProposedSlot, type ProposedTime } from '$lib/reschedule';
 import { formatSlotLabel, isWithinWorkingHours, type Interval } from '$lib/schedule';
+import { formatInZone } from '$lib/time';
 import { db, type Tx } from './db';
 import { booking, installerProfile, job, notice, rescheduleProposal, user } from './db/schema';
 import { lockFitBooking } from './completion';
@@ -153,9 +154,9 @@ export type ProposalOutcome = { ok: true; proposalId: string } | Refusal;
  * Proposes a new time for a paid booking still to be fitted. Refused: not the caller's booking
  * (404); not paid, fit reported, a proposal already open, or a time that overlaps another of the
  * installer's live bookings (409); a time that cannot be read, is the booked time, starts under
- * 2 hours away or over 90 days ahead, or, proposed by the owner, falls outside the installer's
- * working hours or on their day off (400, with the field at fault). The installer may propose
- * outside their usual hours: it is their own time.
+ * 2 hours away or over 90 days ahead, falls on a day the installer marked off, or, proposed by
+ * the owner, falls outside the installer's working hours (400, with the field at fault). The
+ * installer may propose outside their usual hours: it is their own time.
  */
 export async function proposeNewTime(
 	bookingId: string,
@@ -191,18 +192,22 @@ export async function proposeNewTime(
 				fields: { start: 'Choose a time other than the booked one.' }
 			});
 		}
-		if (who.side === 'owner') {
-			const diary = await loadDiary(row.booking.installerId, now, tx);
-			if (
-				diary.hours.length > 0 &&
-				!isWithinWorkingHours(slot, diary.hours, diary.blocked, row.timeZone)
-			) {
-				return refuse(400, "That time is outside the installer's working hours.", {
-					fields: {
-						start: "Choose a time inside the installer's working hours, on a day they work."
-					}
-				});
-			}
+		const diary = await loadDiary(row.booking.installerId, now, tx);
+		if (diary.blocked.includes(formatInZone(slot.start, row.timeZone, 'yyyy-MM-dd'))) {
+			const field =
+				who.side === 'installer'
+					? 'You marked this day off; open it again on your Hours page first.'
+					: 'The installer is not working that day. Choose another date.';
+			return refuse(400, field, { fields: { date: field } });
+		}
+		if (
+			who.side === 'owner' &&
+			diary.hours.length > 0 &&
+			!isWithinWorkingHours(slot, diary.hours, diary.blocked, row.timeZone)
+		) {
+			return refuse(400, "That time is outside the installer's working hours.", {
+				fields: { start: "Choose a time inside the installer's working hours, on a day they work." }
+			});
 		}
 		if (await clashes(tx, row, slot, now)) return refuse(409, OVERLAP);
 		const [made] = await tx
