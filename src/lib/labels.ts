@@ -3,6 +3,7 @@
  * every page and in every e-mail; no raw enum value reaches a screen.
  */
 import type { BoardSort } from './board';
+import type { ReviewAspect } from './reviews';
 import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
@@ -48,7 +49,9 @@ export const ADMIN_ACTION_LABELS: Record<string, string> = {
 	reinstate: 'Lifted the suspension',
 	'force-password-reset': 'Asked for a new password',
 	settings: 'Changed the market settings',
-	'admin-invite': 'Made an admin account'
+	'admin-invite': 'Made an admin account',
+	release: 'Released held funds to the installer',
+	refund: 'Refunded held funds to the owner'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {
@@ -286,3 +289,13 @@ const PAYMENT_EVENT_LABELS: Record<string, string> = {
 export function paymentEventLabel(type: string): string {
 	return PAYMENT_EVENT_LABELS[type] ?? `Provider: other event (${type})`;
 }
+
+/** The aspects each side of a booking rates the other on ($lib/reviews). */
+export const REVIEW_ASPECT_LABELS: Record<ReviewAspect, string> = {
+	workmanship: 'Workmanship',
+	tidiness: 'Tidiness',
+	communication: 'Communication',
+	punctuality: 'Punctuality',
+	vehicleReady: 'Vehicle ready and accessible',
+	accurateJob: 'Accurate job description'
+};

@@ -5,8 +5,17 @@ import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { createAccount, requestPasswordReset, resetPassword, signIn } from '$lib/server/accounts';
 import { db } from '$lib/server/db';
-import { emailOutbox } from '$lib/server/db/schema';
-import { ACCOUNT_ATTEMPTS, ADDRESS_ATTEMPTS, PAIR_ATTEMPTS } from '$lib/server/rate-limit';
+import { emailOutbox, jobMessage, quote } from '$lib/server/db/schema';
+import {
+	ACCOUNT_ATTEMPTS,
+	ADDRESS_ATTEMPTS,
+	MESSAGES_PER_WINDOW,
+	PAIR_ATTEMPTS,
+	QUOTE_SUBMISSIONS
+} from '$lib/server/rate-limit';
+import { submitQuote } from '$lib/server/quotes';
+import { postJobMessage } from '$lib/server/threads';
+import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 
 const password = 'correct horse battery';
 let n = 0;
@@ -80,5 +89,41 @@ describe('sign-in throttling (counters in PostgreSQL)', () => {
 		for (let i = 0; i < PAIR_ATTEMPTS - 1; i++) {
 			expect(outcome(await signIn(email, 'guess', '192.0.2.7'))).toBe(400);
 		}
+	});
+});
+
+describe('quote and message throttling (counters in PostgreSQL)', () => {
+	it('lets a parallel burst of quotes through up to the allowance and refuses the rest with 429', async () => {
+		const { job } = await makeOpenJob(ADELAIDE);
+		const installer = await makeInstaller({ base: ADELAIDE });
+		const input = goodQuote(pricedParts(job));
+		const burst = await Promise.all(
+			Array.from({ length: QUOTE_SUBMISSIONS + 5 }, () => submitQuote(installer.id, job.id, input))
+		);
+		const refused = burst.filter((r) => !r.ok && r.status === 429);
+		expect(refused).toHaveLength(5);
+		expect(burst.filter((r) => r.ok)).toHaveLength(QUOTE_SUBMISSIONS);
+		expect(!refused[0]!.ok && refused[0]!.message).toMatch(
+			/Please wait \d+ minutes? and try again/
+		);
+		// The refused ones wrote nothing: one quote row, one revision per allowed submission.
+		const [row] = await db.select().from(quote).where(eq(quote.jobId, job.id));
+		expect(row?.revision).toBe(QUOTE_SUBMISSIONS);
+	});
+
+	it('lets a parallel burst of messages through up to the allowance and refuses the rest with 429', async () => {
+		const { job, ownerId } = await makeOpenJob(ADELAIDE);
+		const installer = await makeInstaller({ base: ADELAIDE });
+		const sent = await submitQuote(installer.id, job.id, goodQuote(pricedParts(job)));
+		expect(sent.ok).toBe(true);
+		const burst = await Promise.all(
+			Array.from({ length: MESSAGES_PER_WINDOW + 5 }, (_, i) =>
+				postJobMessage(job.id, installer.id, { id: ownerId, role: 'owner' }, `Question ${i}`)
+			)
+		);
+		expect(burst.filter((r) => !r.ok && r.status === 429)).toHaveLength(5);
+		expect(burst.filter((r) => r.ok)).toHaveLength(MESSAGES_PER_WINDOW);
+		const stored = await db.select().from(jobMessage).where(eq(jobMessage.jobId, job.id));
+		expect(stored).toHaveLength(MESSAGES_PER_WINDOW);
 	});
 });

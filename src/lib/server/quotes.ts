@@ -4,6 +4,7 @@
  * progress finishes first and the quote then sees it); every revision is kept in quote_revision.
  * Contact details in quote notes are masked until the job is booked with that installer.
  */
+import { consumeQuoteSubmission, slowDownMessage } from './rate-limit';
 import { and, asc, eq, gt, inArray, isNull, lt, or } from 'drizzle-orm';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
 import { approximateLocation, matchProblem, reachOf } from '$lib/matching';
@@ -26,6 +27,7 @@ import { appUrl } from './mail/app-url';
 import { requestQuoteDigest } from './boss';
 import { withMail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
+import { installerRatings } from './reviews';
 import { jobReach } from './matching';
 import { titleOrUntitled } from '$lib/posted-job';
 import { canQuote } from '$lib/vetting';
@@ -60,6 +62,10 @@ export async function submitQuote(
 	input: QuoteInput,
 	now = new Date()
 ): Promise<QuoteOutcome> {
+	const throttle = await consumeQuoteSubmission(installerId);
+	if (!throttle.allowed) {
+		return refuse(429, slowDownMessage('quotes', throttle.retryAfterSeconds));
+	}
 	return withMail(async (tx, mail) => {
 		const [profile] = await tx
 			.select()
@@ -242,6 +248,7 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
 		.where(eq(quote.jobId, jobId))
 		.orderBy(asc(quote.createdAt));
 	const installerIds = rows.map((r) => r.quote.installerId);
+	const ratings = await installerRatings(installerIds);
 	const fits = installerIds.length
 		? await db
 				.select({ installerId: booking.installerId })
@@ -257,9 +264,10 @@ export async function listQuotesForOwner(jobId: string, ownerId: string) {
 		onHold: r.quote.status === 'live' && !canQuote(r),
 		// Confirmed (paid) bookings: the honest count of fits Tapline has seen them take on.
 		fitsCompleted: fits.filter((f) => f.installerId === r.quote.installerId).length,
-		// No reviews exist yet; the ranking uses its stated prior for everyone.
-		ratingSum: 0,
-		ratingCount: 0
+		// Owners' reviews that show now (hidden ones cannot sway the ranking either): the sum of
+		// their overall stars, each the plain mean of the review's aspect stars, and how many.
+		ratingSum: ratings.get(r.quote.installerId)?.sum ?? 0,
+		ratingCount: ratings.get(r.quote.installerId)?.count ?? 0
 	}));
 }
 

@@ -149,3 +149,33 @@ const emailChangeRequests = limiter('email-change', EMAIL_CHANGE_REQUESTS, 24 * 
 export function consumeEmailChangeRequest(userId: string): Promise<ThrottleResult> {
 	return consumeAll([[emailChangeRequests, userId]]);
 }
+
+/**
+ * Quotes sent or revised per installer in an hour (Tapline's choice: a busy installer quotes a
+ * few dozen jobs a day; a script sending hundreds is stopped).
+ */
+export const QUOTE_SUBMISSIONS = 60;
+const quoteSubmissions = limiter('quote-submit', QUOTE_SUBMISSIONS, 3600);
+
+/** Takes one quote submission from the installer's allowance. */
+export function consumeQuoteSubmission(installerId: string): Promise<ThrottleResult> {
+	return consumeAll([[quoteSubmissions, installerId]]);
+}
+
+/**
+ * Messages written per person in ten minutes, across threads (Tapline's choice: a conversation
+ * is a few messages a minute at most; each message may send an e-mail).
+ */
+export const MESSAGES_PER_WINDOW = 60;
+const messagesWritten = limiter('message-write', MESSAGES_PER_WINDOW, 600);
+
+/** Takes one message from the author's allowance. */
+export function consumeMessage(authorId: string): Promise<ThrottleResult> {
+	return consumeAll([[messagesWritten, authorId]]);
+}
+
+/** A refusal's words for a throttled action, with the wait rounded up to whole minutes. */
+export function slowDownMessage(what: string, retryAfterSeconds: number): string {
+	const minutes = Math.max(1, Math.ceil(retryAfterSeconds / 60));
+	return `You have sent a lot of ${what} in a short time. Please wait ${String(minutes)} minute${minutes === 1 ? '' : 's'} and try again.`;
+}

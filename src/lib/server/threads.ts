@@ -2,6 +2,7 @@
  * The question-and-answer thread between a job's owner and one installer. Contact details are
  * masked until the job is booked with that installer.
  */
+import { consumeMessage, slowDownMessage } from './rate-limit';
 import { and, asc, eq, inArray } from 'drizzle-orm';
 import { canQuote } from '$lib/vetting';
 import { maskContactDetails, type MaskedKind } from '$lib/masking';
@@ -102,6 +103,10 @@ export async function postJobMessage(
 	const checked = threadMessageSchema.safeParse({ body });
 	if (!checked.success) {
 		return refuse(400, checked.error.issues[0]?.message ?? 'Write your message.');
+	}
+	const throttle = await consumeMessage(author.id);
+	if (!throttle.allowed) {
+		return refuse(429, slowDownMessage('messages', throttle.retryAfterSeconds));
 	}
 	return withMail(async (tx, mail) => {
 		const access = await threadAccess(tx, jobId, installerId);

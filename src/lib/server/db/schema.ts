@@ -1,6 +1,7 @@
 import {
 	bigint,
 	boolean,
+	check,
 	date,
 	doublePrecision,
 	index,
@@ -789,6 +790,46 @@ export const notice = pgTable(
 	(t) => [index('notice_user_idx').on(t.userId, t.createdAt)]
 );
 
+/** Which side of a booking wrote a review ($lib/reviews). */
+export const reviewSide = pgEnum('review_side', ['owner', 'installer']);
+
+/**
+ * One side's review of the other after the work was accepted: stars per aspect ($lib/reviews
+ * names them), their mean as `overall_stars` (what ratings add up), a few words, and the
+ * installer's one public reply to an owner's review. `visible_from` is when it shows to the other
+ * side and the public: the window's close when written, brought forward to the second review's
+ * time when both sides review (written under the booking's row lock). One per side per booking.
+ */
+export const review = pgTable(
+	'review',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id),
+		side: reviewSide('side').notNull(),
+		authorId: text('author_id')
+			.notNull()
+			.references(() => user.id),
+		subjectId: text('subject_id')
+			.notNull()
+			.references(() => user.id),
+		aspects: jsonb('aspects').$type<Record<string, number>>().notNull(),
+		overallStars: doublePrecision('overall_stars').notNull(),
+		text: text('text').notNull(),
+		visibleFrom: timestamp('visible_from', { withTimezone: true }).notNull(),
+		reply: text('reply'),
+		repliedAt: timestamp('replied_at', { withTimezone: true }),
+		createdAt: createdAt()
+	},
+	(t) => [
+		uniqueIndex('review_booking_side_idx').on(t.bookingId, t.side),
+		// An installer's public reviews, newest first, and the ratings summed per installer.
+		index('review_subject_idx').on(t.subjectId, t.side, t.createdAt),
+		check('review_overall_stars_range', sql`${t.overallStars} between 1 and 5`)
+	]
+);
+
 export type User = typeof user.$inferSelect;
 export type Role = (typeof userRole.enumValues)[number];
 export type InstallerProfile = typeof installerProfile.$inferSelect;
@@ -796,6 +837,7 @@ export type Job = typeof job.$inferSelect;
 export type Quote = typeof quote.$inferSelect;
 export type Booking = typeof booking.$inferSelect;
 export type FitStage = (typeof fitStage.enumValues)[number];
+export type Review = typeof review.$inferSelect;
 export type LedgerTransaction = typeof ledgerTransaction.$inferSelect;
 export type JobStatus = (typeof jobStatus.enumValues)[number];
 export type VettingStatus = (typeof vettingStatus.enumValues)[number];

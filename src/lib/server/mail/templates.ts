@@ -7,6 +7,7 @@ import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } fro
 import { isPaymentEmail, renderPaymentEmail, type PaymentEmail } from './payments';
 import { isCompletionEmail, renderCompletionEmail, type CompletionEmail } from './completion';
 import { isScheduleEmail, renderScheduleEmail, type ScheduleEmail } from './schedule';
+import { isReviewEmail, renderReviewEmail, type ReviewEmail } from './reviews';
 
 import { renderBlock, type RenderedEmail } from './layout';
 
@@ -44,7 +45,8 @@ export type EmailTemplate =
 	| AccountEmail
 	| PaymentEmail
 	| CompletionEmail
-	| ScheduleEmail;
+	| ScheduleEmail
+	| ReviewEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
 export interface VettingMailData {
@@ -69,6 +71,7 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isPaymentEmail(message)) return renderPaymentEmail(message);
 	if (isCompletionEmail(message)) return renderCompletionEmail(message);
 	if (isScheduleEmail(message)) return renderScheduleEmail(message);
+	if (isReviewEmail(message)) return renderReviewEmail(message);
 	switch (message.template) {
 		case 'verify-email':
 			return renderBlock('Confirm your e-mail address for Tapline', {

@@ -9,6 +9,7 @@ import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { formatSlotLabel } from '$lib/schedule';
 import { listJobMessages, postJobMessage } from '$lib/server/threads';
 import { listQuoteRevisions, submitQuote, withdrawQuote } from '$lib/server/quotes';
+import { getReviewPanel } from '$lib/server/reviews';
 import { quoteFormSchema, toQuoteInput } from './quote-form';
 import { quoteFormDefaults } from './quote-defaults';
 import { CONTACTS_HIDDEN_NOTE as HIDDEN_NOTE } from '$lib/labels';
@@ -84,6 +85,9 @@ export const load: PageServerLoad = async ({ params }) => {
 			!ctx.payoutsEnabled,
 		form,
 		askForm,
+		reviews: found.booking
+			? await getReviewPanel(found.booking.id, installer.id, 'installer')
+			: null,
 		timeZone: ctx.timeZone,
 		gstRegistered: ctx.gstRegistered,
 		// Tapline's fee as it stands today (market settings), for the fee line under the quote.

@@ -9,6 +9,7 @@ import { refusalFail } from '$lib/server/http/respond';
 import { cancelPaidBooking, startHeldFundsPayment } from '$lib/server/payments';
 import { getPaymentState } from '$lib/server/receipts';
 import { getBookingTimes } from '$lib/server/rescheduling';
+import { getReviewPanel } from '$lib/server/reviews';
 import { lateFeeCents } from '$lib/server/stripe';
 import { formatSlotLabel } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
@@ -71,6 +72,7 @@ export const load: PageServerLoad = async ({ params, url }) => {
 					)
 				}
 			: null,
+		reviews: await getReviewPanel(b.id, owner.id, 'owner', now),
 		jobId: row.jobId,
 		title: titleOrUntitled(row.title),
 		businessName: row.businessName,

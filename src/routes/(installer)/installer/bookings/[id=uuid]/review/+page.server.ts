@@ -1,0 +1,49 @@
+import { error, fail } from '@sveltejs/kit';
+import { superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { installerReviewSchema, reviewReplySchema } from '$lib/forms/review';
+import { requireRole } from '$lib/server/http/guards';
+import { redirectWithNotice } from '$lib/server/http/notice';
+import { refusalMessage } from '$lib/server/http/respond';
+import { getReviewPanel, replyToReview, submitReview } from '$lib/server/reviews';
+import type { Actions, PageServerLoad } from './$types';
+
+const NOT_FOUND = 'There is no such booking among yours.';
+
+export const load: PageServerLoad = async ({ params }) => {
+	const installer = requireRole('installer');
+	const panel = await getReviewPanel(params.id, installer.id, 'installer');
+	if (!panel) error(404, NOT_FOUND);
+	const [form, replyForm] = await Promise.all([
+		superValidate(zod4(installerReviewSchema)),
+		superValidate(zod4(reviewReplySchema), { id: 'reply' })
+	]);
+	return { panel, form, replyForm };
+};
+
+export const actions = {
+	review: async ({ params, request, cookies }) => {
+		const installer = requireRole('installer');
+		const form = await superValidate(request, zod4(installerReviewSchema));
+		if (!form.valid) return fail(400, { form });
+		const result = await submitReview(params.id, installer.id, 'installer', form.data);
+		if (!result.ok) return refusalMessage(form, result);
+		redirectWithNotice(
+			cookies,
+			`/installer/bookings/${params.id}/review`,
+			'Thank you: your review is saved.'
+		);
+	},
+	reply: async ({ params, request, cookies }) => {
+		const installer = requireRole('installer');
+		const replyForm = await superValidate(request, zod4(reviewReplySchema), { id: 'reply' });
+		if (!replyForm.valid) return fail(400, { replyForm });
+		const result = await replyToReview(params.id, installer.id, replyForm.data.reply);
+		if (!result.ok) return refusalMessage(replyForm, result);
+		redirectWithNotice(
+			cookies,
+			`/installer/bookings/${params.id}/review`,
+			'Your reply shows under the review.'
+		);
+	}
+} satisfies Actions;

@@ -1,0 +1,33 @@
+import { error, fail } from '@sveltejs/kit';
+import { superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { ownerReviewSchema } from '$lib/forms/review';
+import { requireRole } from '$lib/server/http/guards';
+import { redirectWithNotice } from '$lib/server/http/notice';
+import { refusalMessage } from '$lib/server/http/respond';
+import { getReviewPanel, submitReview } from '$lib/server/reviews';
+import type { Actions, PageServerLoad } from './$types';
+
+const NOT_FOUND = 'There is no such booking among yours.';
+
+export const load: PageServerLoad = async ({ params }) => {
+	const owner = requireRole('owner');
+	const panel = await getReviewPanel(params.id, owner.id, 'owner');
+	if (!panel) error(404, NOT_FOUND);
+	return { panel, form: await superValidate(zod4(ownerReviewSchema)) };
+};
+
+export const actions = {
+	review: async ({ params, request, cookies }) => {
+		const owner = requireRole('owner');
+		const form = await superValidate(request, zod4(ownerReviewSchema));
+		if (!form.valid) return fail(400, { form });
+		const result = await submitReview(params.id, owner.id, 'owner', form.data);
+		if (!result.ok) return refusalMessage(form, result);
+		redirectWithNotice(
+			cookies,
+			`/owner/bookings/${params.id}/review`,
+			'Thank you: your review is saved.'
+		);
+	}
+} satisfies Actions;
