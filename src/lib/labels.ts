@@ -140,6 +140,33 @@ export const POWER_LABELS: Record<PowerMode, string> = {
 	'battery-pack': 'Battery pack'
 };
 
+/** Blade fuse families, as a fit note names them. */
+export const FUSE_FAMILY_LABELS: Record<string, string> = {
+	standard: 'Standard blade',
+	mini: 'Mini blade',
+	'low-profile-mini': 'Low-profile mini',
+	micro2: 'Micro2',
+	micro3: 'Micro3'
+};
+
+/**
+ * What an owner reads before posting about Tapline installers' experience with their kind of
+ * vehicle: a count only, never an installer's notes.
+ */
+export function bodyStyleFitsText(fits: number, bodyStyle: BodyStyle): string {
+	const style = BODY_STYLE_LABELS[bodyStyle].toLowerCase();
+	if (fits === 0) {
+		return `No ${style} fits reported on Tapline in the last year yet; installers quote from the scope sheet.`;
+	}
+	return `Tapline installers reported ${String(fits)} fit${fits === 1 ? '' : 's'} of this body style (${style}) in the last year.`;
+}
+
+/** Another installer's mark on a fit note. */
+export const FIT_NOTE_VERDICT_LABELS: Record<'confirmed' | 'wrong', string> = {
+	confirmed: 'Confirmed on my fit',
+	wrong: 'Wrong on my fit'
+};
+
 /** A label from one of the maps above, or the raw value when it is not in it. */
 export function labelOf(labels: Record<string, string>, value: string): string {
 	return labels[value] ?? value;

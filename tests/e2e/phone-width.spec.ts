@@ -71,6 +71,7 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 		'/installer/fits',
 		'/installer/quotes',
 		'/installer/messages',
+		'/installer/fit-notes',
 		'/account',
 		'/installer/payouts'
 	];

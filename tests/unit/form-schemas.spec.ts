@@ -9,6 +9,7 @@ import { z } from 'zod';
 import * as accountForms from '$lib/forms/account';
 import * as authForms from '$lib/forms/auth';
 import { NUL_MESSAGE } from '$lib/forms/fields';
+import * as fitNoteForms from '$lib/forms/fit-note';
 import * as jobForms from '$lib/forms/job';
 import * as rescheduleForms from '$lib/forms/reschedule';
 import * as threadForms from '$lib/forms/thread';
@@ -19,6 +20,7 @@ import * as quoteForms from '../../src/routes/(installer)/installer/jobs/[id=uui
 const MODULES = {
 	accountForms,
 	authForms,
+	fitNoteForms,
 	jobForms,
 	rescheduleForms,
 	threadForms,
@@ -68,7 +70,9 @@ describe('every free-text field refuses NUL characters', () => {
 				'vettingForms.decisionSchema.message',
 				'threadForms.threadMessageSchema.body',
 				'quoteForms.quoteFormSchema.message',
-				'rescheduleForms.proposeTimeSchema.note'
+				'rescheduleForms.proposeTimeSchema.note',
+				'fitNoteForms.fitNoteSchema.pitfalls',
+				'fitNoteForms.fitNoteMarkSchema.comment'
 			])
 		);
 	});
