@@ -6,6 +6,7 @@ import type { BoardSort } from './board';
 import type { ReviewAspect } from './reviews';
 import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
+import type { FuseFamily } from './scope/fuses';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 // Types only (erased at build): the database enums are the one list of each status.
 import type { Booking, Job, LedgerTransaction, Quote, Role } from './server/db/schema';
@@ -316,6 +317,15 @@ const PAYMENT_EVENT_LABELS: Record<string, string> = {
 export function paymentEventLabel(type: string): string {
 	return PAYMENT_EVENT_LABELS[type] ?? `Provider: other event (${type})`;
 }
+
+/** The fuse families a fit report names (the job's "not sure" is settled on the day). */
+export const FIT_FUSE_FAMILY_LABELS: Record<FuseFamily, string> = {
+	standard: 'Standard blade',
+	mini: 'Mini blade',
+	'low-profile-mini': 'Low-profile mini blade',
+	micro2: 'Micro2',
+	micro3: 'Micro3'
+};
 
 /** The aspects each side of a booking rates the other on ($lib/reviews). */
 export const REVIEW_ASPECT_LABELS: Record<ReviewAspect, string> = {

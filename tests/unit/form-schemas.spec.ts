@@ -10,6 +10,7 @@ import * as accountForms from '$lib/forms/account';
 import * as authForms from '$lib/forms/auth';
 import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as fitNoteForms from '$lib/forms/fit-note';
+import * as fitReportForms from '$lib/forms/fit-report';
 import * as jobForms from '$lib/forms/job';
 import * as rescheduleForms from '$lib/forms/reschedule';
 import * as threadForms from '$lib/forms/thread';
@@ -21,6 +22,7 @@ const MODULES = {
 	accountForms,
 	authForms,
 	fitNoteForms,
+	fitReportForms,
 	jobForms,
 	rescheduleForms,
 	threadForms,
@@ -72,7 +74,9 @@ describe('every free-text field refuses NUL characters', () => {
 				'quoteForms.quoteFormSchema.message',
 				'rescheduleForms.proposeTimeSchema.note',
 				'fitNoteForms.fitNoteSchema.pitfalls',
-				'fitNoteForms.fitNoteMarkSchema.comment'
+				'fitNoteForms.fitNoteMarkSchema.comment',
+				'fitReportForms.fitReportSchema.groundPoint',
+				'fitReportForms.fitReportRearSchema.rearDemisterReason'
 			])
 		);
 	});

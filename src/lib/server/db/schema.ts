@@ -628,6 +628,29 @@ export const fitReport = pgTable(
 );
 
 /**
+ * Photos filed with a fit report (the install record shows them). Served only to the booking's
+ * owner and installer and to admins, through /media/fit-report-photos.
+ */
+export const fitReportPhoto = pgTable(
+	'fit_report_photo',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		fitReportId: uuid('fit_report_id')
+			.notNull()
+			.references(() => fitReport.id, { onDelete: 'cascade' }),
+		/** The order the installer chose them in. */
+		position: integer('position').notNull(),
+		objectKey: text('object_key').notNull(),
+		thumbKey: text('thumb_key').notNull(),
+		width: integer('width').notNull(),
+		height: integer('height').notNull(),
+		bytes: integer('bytes').notNull(),
+		createdAt: createdAt()
+	},
+	(t) => [uniqueIndex('fit_report_photo_report_position_idx').on(t.fitReportId, t.position)]
+);
+
+/**
  * What an installer learned fitting one vehicle, published after a fit report for other vetted
  * installers: one note per booking. Vehicle facts only (make, model, year range, body style) and
  * trade know-how; never the owner, plate or address, and free text is refused when it carries
