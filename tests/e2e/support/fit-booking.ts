@@ -102,3 +102,69 @@ export async function paidBooking(browser: Browser, label: string, installerJava
 	await signIn(phone, installer.email, PASSWORD);
 	return { bookingId, title, ownerPage, phone };
 }
+
+/**
+ * Fills and files the fit report of a booking as its installer would: both supplies tapped, tap
+ * orientation checked, a bare-metal ground, a 12.0 V cut-off, the checks done, no curtain airbags,
+ * 95 minutes and one photo. `rear` says whether the job has a rear camera (the demister item).
+ */
+export async function fileFitReport(
+	page: Page,
+	bookingId: string,
+	photo: Buffer,
+	options: { rear: boolean; fuseFamily?: string } = { rear: true }
+) {
+	await page.goto(`/installer/bookings/${bookingId}/report`);
+	await expect(page.getByRole('heading', { name: 'Fit report' })).toBeVisible();
+	const item = (name: string) => page.getByTestId(`item-${name}`);
+	for (const [side, position, original] of [
+		['switchedTap', 'F12 cabin box', '10'],
+		['permanentTap', 'F30 cabin box', '15']
+	] as const) {
+		await item(side)
+			.getByRole('radio', { name: /^Tapped/ })
+			.check();
+		await item(side).getByLabel('Fuse position', { exact: true }).fill(position);
+		await item(side).getByLabel('Original fuse', { exact: true }).selectOption(original);
+		await item(side).getByLabel('Added circuit fuse', { exact: true }).selectOption('5');
+	}
+	await expect(page.getByLabel('Fuse family of the taps')).toHaveValue(
+		options.fuseFamily ?? 'mini'
+	);
+	await item('tapOrientation')
+		.getByRole('radio', { name: /^Checked/ })
+		.check();
+	await item('ground')
+		.getByRole('radio', { name: /^Grounded/ })
+		.check();
+	await item('ground')
+		.getByLabel('Ground point', { exact: true })
+		.fill('Kick-panel stud, passenger side');
+	await item('ground')
+		.getByRole('checkbox', { name: /^On bare metal/ })
+		.check();
+	await item('cutOff').getByRole('radio', { name: /^Set/ }).check();
+	await item('cutOff').getByLabel('Cut-off voltage (V)', { exact: true }).fill('12.0');
+	const checks = ['parkingMode', 'cableHidden', 'cameraPlacement'];
+	if (options.rear) checks.push('rearDemister');
+	for (const name of checks) {
+		await item(name)
+			.getByRole('radio', { name: /^Checked/ })
+			.check();
+	}
+	if (!options.rear) await expect(item('rearDemister')).toHaveCount(0);
+	await item('airbagRouting')
+		.getByRole('radio', { name: /^Does not apply/ })
+		.check();
+	await item('airbagRouting')
+		.getByLabel('Why it does not apply', { exact: true })
+		.fill('No curtain airbags in this vehicle');
+	await page.getByLabel('Minutes on the vehicle').fill('95');
+	await page.getByLabel('Photos').setInputFiles({
+		name: 'fuse-box.jpg',
+		mimeType: 'image/jpeg',
+		buffer: photo
+	});
+	await page.getByRole('button', { name: 'File the fit report' }).click();
+	await expect(page).toHaveURL(new RegExp(`/installer/bookings/${bookingId}/record$`));
+}
