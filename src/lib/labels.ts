@@ -199,6 +199,14 @@ export const BOOKING_STATUS_LABELS: Record<Booking['status'], string> = {
 	lapsed: 'Lapsed: the hold ran out'
 };
 
+/** Where a proposal of a new time stands. */
+export const PROPOSAL_STATUS_LABELS = {
+	open: 'Waiting for an answer',
+	accepted: 'Accepted',
+	declined: 'Declined',
+	withdrawn: 'Withdrawn'
+} as const;
+
 /** What happened in an installer's vetting history, as an audit line. */
 export const VETTING_ACTION_LABELS: Record<
 	VettingAction | 'insurance-updated' | 'service-area-moved' | 'account-closed',

@@ -67,6 +67,7 @@ test("an installer's pages fit a 360 px phone", async ({ page }) => {
 		'/installer/documents',
 		'/installer/service-area',
 		'/installer/hours',
+		'/installer/calendar',
 		'/installer/fits',
 		'/installer/quotes',
 		'/installer/messages',

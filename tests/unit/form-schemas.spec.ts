@@ -13,6 +13,7 @@ import { NUL_MESSAGE } from '$lib/forms/fields';
 import * as fitNoteForms from '$lib/forms/fit-note';
 import * as fitReportForms from '$lib/forms/fit-report';
 import * as jobForms from '$lib/forms/job';
+import * as rescheduleForms from '$lib/forms/reschedule';
 import * as threadForms from '$lib/forms/thread';
 import * as vettingForms from '$lib/forms/vetting';
 import * as jobRequest from '$lib/scope/request';
@@ -25,6 +26,7 @@ const MODULES = {
 	fitNoteForms,
 	fitReportForms,
 	jobForms,
+	rescheduleForms,
 	threadForms,
 	vettingForms,
 	jobRequest,
@@ -74,6 +76,7 @@ describe('every free-text field refuses NUL characters', () => {
 				'quoteForms.quoteFormSchema.message',
 				'disputeForms.raiseProblemSchema.description',
 				'disputeForms.settleSchema.note',
+				'rescheduleForms.proposeTimeSchema.note',
 				'fitNoteForms.fitNoteSchema.pitfalls',
 				'fitNoteForms.fitNoteMarkSchema.comment',
 				'fitReportForms.fitReportSchema.groundPoint',
@@ -96,7 +99,8 @@ describe('date fields refuse days that do not exist', () => {
 		{ field: 'insuranceSchema.expiresOn', schema: vettingForms.insuranceSchema, key: 'expiresOn' },
 		{ field: 'quoteFormSchema.expiresOn', schema: quoteForms.quoteFormSchema, key: 'expiresOn' },
 		{ field: 'quoteFormSchema.slotDate', schema: quoteForms.quoteFormSchema, key: 'slotDate' },
-		{ field: 'settleSchema.visitDate', schema: disputeForms.settleSchema, key: 'visitDate' }
+		{ field: 'settleSchema.visitDate', schema: disputeForms.settleSchema, key: 'visitDate' },
+		{ field: 'proposeTimeSchema.date', schema: rescheduleForms.proposeTimeSchema, key: 'date' }
 	];
 
 	it.each(dateFields)('$field', ({ schema, key }) => {

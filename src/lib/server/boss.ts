@@ -13,7 +13,8 @@ export const QUEUES = {
 	quoteDigest: 'quote-digest',
 	bookingHoldLapse: 'booking-hold-lapse',
 	heldFundsRelease: 'held-funds-release',
-	bookingAutoConfirm: 'booking-auto-confirm'
+	bookingAutoConfirm: 'booking-auto-confirm',
+	bookingReminder: 'booking-reminder'
 } as const;
 
 /**

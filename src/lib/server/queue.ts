@@ -14,6 +14,7 @@
  * | `booking-hold-lapse` | every minute                | lapses provisional bookings past their hold   |
  * | `held-funds-release` | every 5 minutes             | retries releases the provider did not take    |
  * | `booking-auto-confirm` | every minute              | confirms work whose owner's window closed     |
+ * | `booking-reminder`   | every 10 minutes            | e-mails both sides a day before a paid fit    |
  */
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
@@ -21,6 +22,7 @@ import { QUEUES, QUOTE_DIGEST_SECONDS, setBoss } from './boss';
 import { retryPendingReleases } from './payments';
 import { lapseExpiredHolds } from './bookings';
 import { confirmOverdueWork } from './completion';
+import { sendDueReminders } from './reminders';
 import { deliverEmail, listStrandedEmails } from './mail/outbox';
 import { sendNewJobDigests } from './matching';
 import { listJobsWithUnsentQuotes, sendOwnerQuoteDigest } from './quotes';
@@ -115,7 +117,8 @@ async function registerWork(boss: PgBoss): Promise<void> {
 		QUEUES.quoteDigest,
 		QUEUES.bookingHoldLapse,
 		QUEUES.heldFundsRelease,
-		QUEUES.bookingAutoConfirm
+		QUEUES.bookingAutoConfirm,
+		QUEUES.bookingReminder
 	]) {
 		await boss.createQueue(name, { name, retryLimit: 3, retryDelay: 60 });
 	}
@@ -156,6 +159,12 @@ async function registerWork(boss: PgBoss): Promise<void> {
 	await boss.schedule(QUEUES.bookingAutoConfirm, '* * * * *');
 	await boss.work(QUEUES.bookingAutoConfirm, async () => {
 		await confirmOverdueWork();
+	});
+	// Reminders: within 10 minutes of a paid fit coming within a day; the marker set with the
+	// outbox rows makes a second worker or a retry send nothing twice.
+	await boss.schedule(QUEUES.bookingReminder, '*/10 * * * *');
+	await boss.work(QUEUES.bookingReminder, async () => {
+		await sendDueReminders();
 	});
 }
 

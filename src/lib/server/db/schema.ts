@@ -538,6 +538,10 @@ export const booking = pgTable(
 		confirmBy: timestamp('confirm_by', { withTimezone: true }),
 		acceptedAt: timestamp('accepted_at', { withTimezone: true }),
 		acceptedBy: acceptedBy('accepted_by'),
+		/** When the day-before reminders went out for the current slot; cleared by a new time. */
+		reminderSentAt: timestamp('reminder_sent_at', { withTimezone: true }),
+		/** The calendar file's SEQUENCE: 0 for the booked slot, one more for each new time. */
+		calendarSequence: integer('calendar_sequence').notNull().default(0),
 		createdAt: createdAt()
 	},
 	(t) => [
@@ -547,7 +551,49 @@ export const booking = pgTable(
 		uniqueIndex('booking_live_job_idx')
 			.on(t.jobId)
 			.where(sql`status in ('awaiting_payment', 'confirmed')`),
-		index('booking_installer_idx').on(t.installerId, t.slotStart)
+		index('booking_installer_idx').on(t.installerId, t.slotStart),
+		// The reminder schedule's look-up: paid bookings whose reminder has not gone out.
+		index('booking_reminder_due_idx')
+			.on(t.slotStart)
+			.where(sql`status = 'confirmed' and reminder_sent_at is null`)
+	]
+);
+
+/** Where a proposal of a new time stands. */
+export const proposalStatus = pgEnum('proposal_status', [
+	'open',
+	'accepted',
+	'declined',
+	'withdrawn'
+]);
+
+/**
+ * A new time for a paid booking, proposed by one side and answered by the other (see
+ * rescheduling.ts). At most one open proposal per booking (partial unique index).
+ */
+export const rescheduleProposal = pgTable(
+	'reschedule_proposal',
+	{
+		id: uuid('id').primaryKey().defaultRandom(),
+		bookingId: uuid('booking_id')
+			.notNull()
+			.references(() => booking.id),
+		proposedBy: text('proposed_by')
+			.notNull()
+			.references(() => user.id),
+		proposerSide: text('proposer_side', { enum: ['owner', 'installer'] }).notNull(),
+		slotStart: timestamp('slot_start', { withTimezone: true }).notNull(),
+		slotEnd: timestamp('slot_end', { withTimezone: true }).notNull(),
+		note: text('note'),
+		status: proposalStatus('status').notNull().default('open'),
+		answeredAt: timestamp('answered_at', { withTimezone: true }),
+		createdAt: createdAt()
+	},
+	(t) => [
+		uniqueIndex('reschedule_proposal_open_idx')
+			.on(t.bookingId)
+			.where(sql`status = 'open'`),
+		index('reschedule_proposal_booking_idx').on(t.bookingId, t.createdAt)
 	]
 );
 

@@ -7,6 +7,7 @@ import { isMarketplaceEmail, renderMarketplaceEmail, type MarketplaceEmail } fro
 import { isPaymentEmail, renderPaymentEmail, type PaymentEmail } from './payments';
 import { isCompletionEmail, renderCompletionEmail, type CompletionEmail } from './completion';
 import { isDisputeEmail, renderDisputeEmail, type DisputeEmail } from './disputes';
+import { isScheduleEmail, renderScheduleEmail, type ScheduleEmail } from './schedule';
 import { isReviewEmail, renderReviewEmail, type ReviewEmail } from './reviews';
 
 import { renderBlock, type RenderedEmail } from './layout';
@@ -46,6 +47,7 @@ export type EmailTemplate =
 	| PaymentEmail
 	| CompletionEmail
 	| DisputeEmail
+	| ScheduleEmail
 	| ReviewEmail;
 
 /** What every vetting e-mail needs: whom it greets and where their status page is. */
@@ -71,6 +73,7 @@ export function renderEmail(message: EmailTemplate): RenderedEmail {
 	if (isPaymentEmail(message)) return renderPaymentEmail(message);
 	if (isCompletionEmail(message)) return renderCompletionEmail(message);
 	if (isDisputeEmail(message)) return renderDisputeEmail(message);
+	if (isScheduleEmail(message)) return renderScheduleEmail(message);
 	if (isReviewEmail(message)) return renderReviewEmail(message);
 	switch (message.template) {
 		case 'verify-email':

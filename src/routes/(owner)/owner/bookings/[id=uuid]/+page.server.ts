@@ -8,6 +8,7 @@ import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalFail } from '$lib/server/http/respond';
 import { cancelPaidBooking, startHeldFundsPayment } from '$lib/server/payments';
 import { getPaymentState } from '$lib/server/receipts';
+import { getBookingTimes } from '$lib/server/rescheduling';
 import { getReviewPanel } from '$lib/server/reviews';
 import { lateFeeCents } from '$lib/server/stripe';
 import { formatSlotLabel } from '$lib/schedule';
@@ -25,7 +26,10 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	const row = await getOwnerBooking(params.id, owner.id);
 	if (!row) error(404, NOT_FOUND);
 	const b = row.booking;
-	const money = await getPaymentState(b.id);
+	const [money, times] = await Promise.all([
+		getPaymentState(b.id),
+		getBookingTimes(b.id, { id: owner.id, side: 'owner' })
+	]);
 	const now = new Date();
 	const status =
 		money.paidAt && b.status === 'awaiting_payment' ? b.status : bookingStatusAt(b, now);
@@ -71,6 +75,15 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			confirmBy: b.confirmBy ? formatDayTime(b.confirmBy, row.timeZone, now) : null,
 			mayAnswer: b.stage === 'reported' && b.confirmBy !== null && now < b.confirmBy
 		},
+		proposal: times?.open
+			? {
+					mine: times.open.mine,
+					slot: formatSlotLabel(
+						{ start: times.open.slotStart, end: times.open.slotEnd },
+						row.timeZone
+					)
+				}
+			: null,
 		reviews: await getReviewPanel(b.id, owner.id, 'owner', now),
 		jobId: row.jobId,
 		title: titleOrUntitled(row.title),
