@@ -24,6 +24,22 @@ describe('day rows', () => {
 		// 22:30 UTC on the 7th is already the 8th in Adelaide.
 		expect(row.day).toBe('2026-12-08');
 		expect(row.status).toBe('Provisional: waiting for payment');
+		expect(row.report).toBeNull();
+	});
+
+	it('says whether the fit report is due or filed for a paid booking', () => {
+		const fit = {
+			bookingId: 'b',
+			jobId: 'j',
+			title: 'T',
+			suburb: null,
+			slotStart: new Date('2026-12-07T22:30:00Z'),
+			slotEnd: new Date('2026-12-08T00:30:00Z'),
+			status: 'confirmed' as const
+		};
+		expect(fitRow({ ...fit, stage: 'to_fit' }, ZONE, NOW).report).toBe('due');
+		expect(fitRow({ ...fit, stage: 'reported' }, ZONE, NOW).report).toBe('filed');
+		expect(fitRow({ ...fit, status: 'cancelled', stage: 'to_fit' }, ZONE, NOW).report).toBeNull();
 	});
 
 	it('gives a quote its total in dollars and the last day it holds', () => {

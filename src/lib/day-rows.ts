@@ -4,6 +4,7 @@
  * through $lib/labels). Pure, so the pages and tests share it.
  */
 import { BOOKING_STATUS_LABELS } from './labels';
+import type { FitStageName } from './lifecycle';
 import { formatAud } from './money';
 import { formatDay, formatDayTime, formatDayTimeRange, formatInZone } from './time';
 
@@ -20,6 +21,8 @@ export interface FitRow {
 	/** The local date 'YYYY-MM-DD', so the hours page can warn against blocking it. */
 	day: string;
 	status: string;
+	/** The fit report: due (paid, not yet fitted), filed (the record exists) or neither. */
+	report: 'due' | 'filed' | null;
 }
 
 /** A booked slot in words, in the installer's zone. */
@@ -32,6 +35,7 @@ export function fitRow(
 		slotStart: Date;
 		slotEnd: Date;
 		status: 'awaiting_payment' | 'confirmed' | 'cancelled' | 'lapsed';
+		stage?: FitStageName;
 	},
 	zone: string,
 	now = new Date()
@@ -43,7 +47,9 @@ export function fitRow(
 		suburb: fit.suburb,
 		when: formatDayTimeRange(fit.slotStart, fit.slotEnd, zone, now),
 		day: formatInZone(fit.slotStart, zone, 'yyyy-MM-dd'),
-		status: BOOKING_STATUS_LABELS[fit.status]
+		status: BOOKING_STATUS_LABELS[fit.status],
+		report:
+			fit.status !== 'confirmed' || !fit.stage ? null : fit.stage === 'to_fit' ? 'due' : 'filed'
 	};
 }
 

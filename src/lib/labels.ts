@@ -6,6 +6,7 @@ import type { BoardSort } from './board';
 import type { ReviewAspect } from './reviews';
 import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
+import type { FuseFamily } from './scope/fuses';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 // Types only (erased at build): the database enums are the one list of each status.
 import type { Booking, Job, LedgerTransaction, Quote, Role } from './server/db/schema';
@@ -49,7 +50,9 @@ export const ADMIN_ACTION_LABELS: Record<string, string> = {
 	reinstate: 'Lifted the suspension',
 	'force-password-reset': 'Asked for a new password',
 	settings: 'Changed the market settings',
-	'admin-invite': 'Made an admin account'
+	'admin-invite': 'Made an admin account',
+	release: 'Released held funds to the installer',
+	refund: 'Refunded held funds to the owner'
 };
 
 export const STAGE_LABELS: Record<VettingStage, string> = {
@@ -136,6 +139,33 @@ export const POWER_LABELS: Record<PowerMode, string> = {
 	'hardwired-parking': 'Hard-wired, parking mode',
 	obd: 'OBD with cut-off',
 	'battery-pack': 'Battery pack'
+};
+
+/** Blade fuse families, as a fit note names them. */
+export const FUSE_FAMILY_LABELS: Record<string, string> = {
+	standard: 'Standard blade',
+	mini: 'Mini blade',
+	'low-profile-mini': 'Low-profile mini',
+	micro2: 'Micro2',
+	micro3: 'Micro3'
+};
+
+/**
+ * What an owner reads before posting about Tapline installers' experience with their kind of
+ * vehicle: a count only, never an installer's notes.
+ */
+export function bodyStyleFitsText(fits: number, bodyStyle: BodyStyle): string {
+	const style = BODY_STYLE_LABELS[bodyStyle].toLowerCase();
+	if (fits === 0) {
+		return `No ${style} fits reported on Tapline in the last year yet; installers quote from the scope sheet.`;
+	}
+	return `Tapline installers reported ${String(fits)} fit${fits === 1 ? '' : 's'} of this body style (${style}) in the last year.`;
+}
+
+/** Another installer's mark on a fit note. */
+export const FIT_NOTE_VERDICT_LABELS: Record<'confirmed' | 'wrong', string> = {
+	confirmed: 'Confirmed on my fit',
+	wrong: 'Wrong on my fit'
 };
 
 /** A label from one of the maps above, or the raw value when it is not in it. */
@@ -279,6 +309,15 @@ const PAYMENT_EVENT_LABELS: Record<string, string> = {
 export function paymentEventLabel(type: string): string {
 	return PAYMENT_EVENT_LABELS[type] ?? `Provider: other event (${type})`;
 }
+
+/** The fuse families a fit report names (the job's "not sure" is settled on the day). */
+export const FIT_FUSE_FAMILY_LABELS: Record<FuseFamily, string> = {
+	standard: 'Standard blade',
+	mini: 'Mini blade',
+	'low-profile-mini': 'Low-profile mini blade',
+	micro2: 'Micro2',
+	micro3: 'Micro3'
+};
 
 /** The aspects each side of a booking rates the other on ($lib/reviews). */
 export const REVIEW_ASPECT_LABELS: Record<ReviewAspect, string> = {

@@ -41,9 +41,14 @@ export function scopeSummary(scope: ScopeSheet): string {
  * the board's filter columns (with the skills it needs and the scope summary, so the board reads
  * neither the request nor the scope) and the price guide.
  * @param request the whole, validated request
+ * @param fitMinutes minutes of similar reported fits, for the labour calibration
  */
-export function postedJobColumns(request: JobRequestInput, market?: Market) {
-	const scope = computeScope(request, market);
+export function postedJobColumns(
+	request: JobRequestInput,
+	market?: Market,
+	fitMinutes: readonly number[] = []
+) {
+	const scope = computeScope(request, market, fitMinutes);
 	return {
 		request,
 		scope,

@@ -409,6 +409,51 @@ describe('refunds and cancellation', () => {
 	});
 });
 
+describe('an admin moving money by hand', () => {
+	it('audits a release and a refund with who, why, before and after, in the same transaction', async () => {
+		const admin = await makeUser('owner', 'money-admin');
+		const refunded = await paidBooking();
+		const total = refunded.chosen.totalCents;
+		const refund = await refundHeldFunds(refunded.bookingId, 1000, {
+			adminId: admin.id,
+			reason: 'Goodwill for a late start'
+		});
+		expect(refund.ok).toBe(true);
+		const released = await paidBooking();
+		const release = await releaseHeldFunds(released.bookingId, new Date(), {
+			adminId: admin.id,
+			reason: 'Owner confirmed by phone'
+		});
+		expect(release.ok).toBe(true);
+		const rows = await db
+			.select()
+			.from(adminAudit)
+			.where(eq(adminAudit.actorId, admin.id))
+			.orderBy(adminAudit.createdAt);
+		expect(rows.map((r) => [r.action, r.reason])).toEqual([
+			['refund', 'Goodwill for a late start'],
+			['release', 'Owner confirmed by phone']
+		]);
+		expect(rows[0]!.before).toEqual({ bookingId: refunded.bookingId, heldCents: total });
+		expect(rows[0]!.after).toEqual({
+			bookingId: refunded.bookingId,
+			heldCents: total - 1000,
+			refundCents: 1000
+		});
+		expect(rows[0]!.targetUserId).toBe(refunded.ownerId);
+		expect(rows[1]!.targetUserId).toBe(released.chosen.installerId);
+		// A refused refund writes no audit row.
+		const refused = await refundHeldFunds(refunded.bookingId, total * 10, {
+			adminId: admin.id,
+			reason: 'Too much'
+		});
+		expect(refused.ok).toBe(false);
+		expect(await db.select().from(adminAudit).where(eq(adminAudit.actorId, admin.id))).toHaveLength(
+			2
+		);
+	});
+});
+
 describe('payouts set-up', () => {
 	it('lets an installer quote only once payouts are enabled through onboarding', async () => {
 		const installer = await makeInstaller({ base: ADELAIDE, payoutsEnabled: false });

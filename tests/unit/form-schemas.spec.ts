@@ -9,6 +9,8 @@ import { z } from 'zod';
 import * as accountForms from '$lib/forms/account';
 import * as authForms from '$lib/forms/auth';
 import { NUL_MESSAGE } from '$lib/forms/fields';
+import * as fitNoteForms from '$lib/forms/fit-note';
+import * as fitReportForms from '$lib/forms/fit-report';
 import * as jobForms from '$lib/forms/job';
 import * as threadForms from '$lib/forms/thread';
 import * as vettingForms from '$lib/forms/vetting';
@@ -18,6 +20,8 @@ import * as quoteForms from '../../src/routes/(installer)/installer/jobs/[id=uui
 const MODULES = {
 	accountForms,
 	authForms,
+	fitNoteForms,
+	fitReportForms,
 	jobForms,
 	threadForms,
 	vettingForms,
@@ -65,7 +69,11 @@ describe('every free-text field refuses NUL characters', () => {
 				'jobRequest.jobRequestSchema.model',
 				'vettingForms.decisionSchema.message',
 				'threadForms.threadMessageSchema.body',
-				'quoteForms.quoteFormSchema.message'
+				'quoteForms.quoteFormSchema.message',
+				'fitNoteForms.fitNoteSchema.pitfalls',
+				'fitNoteForms.fitNoteMarkSchema.comment',
+				'fitReportForms.fitReportSchema.groundPoint',
+				'fitReportForms.fitReportRearSchema.rearDemisterReason'
 			])
 		);
 	});

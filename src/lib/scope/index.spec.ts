@@ -66,4 +66,21 @@ describe('computeScope', () => {
 		const ownerSupplied = computeScope(JOB);
 		expect(sheet.price.totalIncGst.min - ownerSupplied.price.totalIncGst.min).toBe(30_000);
 	});
+
+	it('calibrates the labour total, and so the price guide, from reported fits', () => {
+		const sheet = computeScope(JOB);
+		// Worked in calibration.spec.ts: five fits, median 140 → 110–210 becomes 100–200.
+		const calibrated = computeScope(JOB, ADELAIDE_MARKET, [120, 400, 130, 150, 140]);
+		expect([calibrated.labour.minMinutes, calibrated.labour.maxMinutes]).toEqual([100, 200]);
+		expect(calibrated.labour.calibration?.fits).toBe(5);
+		// The task lines keep the trade's ranges.
+		expect(calibrated.labour.lines).toEqual(sheet.labour.lines);
+		// Ten minutes less labour at each end lowers the guide at each end.
+		expect(calibrated.price.labourExGst.min).toBeLessThan(sheet.price.labourExGst.min);
+		expect(calibrated.price.labourExGst.max).toBeLessThan(sheet.price.labourExGst.max);
+		// Thin data: the sheet is the default one, with no calibration said.
+		const thin = computeScope(JOB, ADELAIDE_MARKET, [60, 70]);
+		expect(thin.labour).toEqual(sheet.labour);
+		expect(thin.labour.calibration).toBeUndefined();
+	});
 });

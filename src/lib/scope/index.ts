@@ -2,6 +2,7 @@
  * The job scope sheet: labour, parts, parking-mode budget, price guide and cautions, computed
  * from the owner's answers. Pure: no I/O, safe in the browser and in tests.
  */
+import { calibrateLabour } from '../calibration';
 import { cautionsFor, type Caution } from './cautions';
 import { estimateLabour, type LabourEstimate } from './labour';
 import { parkingScope, type ParkingScope } from './parking';
@@ -33,9 +34,15 @@ export interface ScopeSheet {
  * Builds the scope sheet for a validated job request.
  * @param input a request that passed `jobRequestSchema`
  * @param market rates and prices; the Adelaide demo market by default
+ * @param fitMinutes minutes reported on similar fits (same body style, cameras, power); with
+ *   enough of them the labour total (and so the price guide) is calibrated ($lib/calibration)
  */
-export function computeScope(input: JobRequestInput, market: Market = ADELAIDE_MARKET): ScopeSheet {
-	const labour = estimateLabour(input);
+export function computeScope(
+	input: JobRequestInput,
+	market: Market = ADELAIDE_MARKET,
+	fitMinutes: readonly number[] = []
+): ScopeSheet {
+	const labour = withCalibration(estimateLabour(input), fitMinutes);
 	const parts = listParts(input);
 	const cameraBudgetCents = input.cameraSupply === 'installer' ? (input.cameraBudgetCents ?? 0) : 0;
 	return {
@@ -45,5 +52,16 @@ export function computeScope(input: JobRequestInput, market: Market = ADELAIDE_M
 		parking: parkingScope(input),
 		price: priceGuide(labour, parts, market, cameraBudgetCents),
 		cautions: cautionsFor(input)
+	};
+}
+
+function withCalibration(labour: LabourEstimate, fitMinutes: readonly number[]): LabourEstimate {
+	const calibrated = calibrateLabour(labour, fitMinutes);
+	if (!calibrated.calibration) return labour;
+	return {
+		...labour,
+		minMinutes: calibrated.minMinutes,
+		maxMinutes: calibrated.maxMinutes,
+		calibration: calibrated.calibration
 	};
 }

@@ -61,7 +61,8 @@ export async function listUpcomingFits(
 			suburb: job.suburb,
 			slotStart: booking.slotStart,
 			slotEnd: booking.slotEnd,
-			status: booking.status
+			status: booking.status,
+			stage: booking.stage
 		})
 		.from(booking)
 		.innerJoin(job, eq(job.id, booking.jobId))

@@ -14,6 +14,7 @@ import {
 	type PhotoKind,
 	type TimeWindow
 } from '$lib/forms/job';
+import { similarFitMinutes } from './calibration';
 import { unconfirmedEmail } from './confirmed-email';
 import { db, type Tx } from './db';
 import { installerProfile, job, jobPhoto, quote, user, type Job } from './db/schema';
@@ -144,7 +145,11 @@ export async function postJob(
 			.update(job)
 			.set({
 				status: 'collecting_quotes',
-				...postedJobColumns(request, scopeMarketOf(await getMarketSettings(tx))),
+				...postedJobColumns(
+					request,
+					scopeMarketOf(await getMarketSettings(tx)),
+					await similarFitMinutes(request, now, tx)
+				),
 				draftStep: 'review',
 				submittedAt: locked.submittedAt ?? now,
 				updatedAt: now

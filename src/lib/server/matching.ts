@@ -297,7 +297,8 @@ export async function getJobForInstaller(jobId: string, installer: InstallerCont
 			slotStart: booking.slotStart,
 			slotEnd: booking.slotEnd,
 			status: booking.status,
-			holdExpiresAt: booking.holdExpiresAt
+			holdExpiresAt: booking.holdExpiresAt,
+			stage: booking.stage
 		})
 		.from(booking)
 		.where(

@@ -19,6 +19,7 @@ import { titleOrUntitled } from '$lib/posted-job';
 import { formatSlotLabel } from '$lib/schedule';
 import { db, type Tx } from './db';
 import {
+	adminAudit,
 	booking,
 	installerProfile,
 	job,
@@ -35,6 +36,12 @@ import { withMail, type Mail } from './mail/outbox';
 import { refuse, type Refusal } from './refusal';
 import { isProviderOutage, stripe, Stripe, transferGroupOf, webhookSecret } from './stripe';
 import { feeOf, getMarketSettings } from './settings';
+
+/** An admin's hand on a money movement: who, and why (kept in `admin_audit` with it). */
+export interface AdminNote {
+	adminId: string;
+	reason: string;
+}
 
 /** What starting a payment gives the booking page. */
 export type HeldFundsStart =
@@ -541,7 +548,8 @@ export type ReleaseOutcome =
  */
 export async function releaseHeldFunds(
 	bookingId: string,
-	now = new Date()
+	now = new Date(),
+	audit?: AdminNote
 ): Promise<ReleaseOutcome> {
 	try {
 		return await withMail(async (tx, mail) => {
@@ -595,6 +603,22 @@ export async function releaseHeldFunds(
 					{ account: 'platform_cash', amountCents: -split.payoutCents }
 				]
 			});
+			if (audit) {
+				await tx.insert(adminAudit).values({
+					actorId: audit.adminId,
+					action: 'release',
+					targetUserId: row.booking.installerId,
+					before: { bookingId, heldCents: held },
+					after: {
+						bookingId,
+						heldCents: 0,
+						payoutCents: split.payoutCents,
+						feeCents: split.feeCents
+					},
+					reason: audit.reason,
+					createdAt: now
+				});
+			}
 			await tx
 				.update(payment)
 				.set({
@@ -672,7 +696,8 @@ export type RefundOutcome = { ok: true; refundId: string; heldCents: number } | 
  */
 export async function refundHeldFunds(
 	bookingId: string,
-	amountCents: number
+	amountCents: number,
+	audit?: AdminNote
 ): Promise<RefundOutcome> {
 	if (!Number.isSafeInteger(amountCents) || amountCents <= 0) {
 		return refuse(400, 'Enter a refund of at least one cent.');
@@ -704,6 +729,16 @@ export async function refundHeldFunds(
 				amountCents,
 				`manual-${String(refunds[0]?.n ?? 0)}`
 			);
+			if (audit) {
+				await tx.insert(adminAudit).values({
+					actorId: audit.adminId,
+					action: 'refund',
+					targetUserId: row.booking.ownerId,
+					before: { bookingId, heldCents: held },
+					after: { bookingId, heldCents: held - amountCents, refundCents: amountCents },
+					reason: audit.reason
+				});
+			}
 			return { ok: true as const, refundId, heldCents: held - amountCents };
 		});
 	} catch (err) {

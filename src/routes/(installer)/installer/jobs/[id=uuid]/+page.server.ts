@@ -4,6 +4,7 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { threadMessageSchema } from '$lib/forms/thread';
 import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
 import { listJobPhotos } from '$lib/server/jobs';
+import { fitsAwaitingNote, notesForVehicle } from '$lib/server/fit-notes';
 import { refusalFail, refusalMessage } from '$lib/server/http/respond';
 import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
 import { formatSlotLabel } from '$lib/schedule';
@@ -31,11 +32,13 @@ export const load: PageServerLoad = async ({ params }) => {
 	const { installer, ctx } = await context();
 	const found = await getJobForInstaller(params.id, ctx);
 	if (!found) error(404, NOT_FOUND);
-	const [photos, messages, revisions, defaults] = await Promise.all([
+	const [photos, messages, revisions, defaults, fitNotes, mayPublishNote] = await Promise.all([
 		listJobPhotos(found.id),
 		listJobMessages(found.id, installer.id),
 		found.myQuote ? listQuoteRevisions(found.myQuote.id) : Promise.resolve([]),
-		quoteFormDefaults(found, ctx)
+		quoteFormDefaults(found, ctx),
+		found.request ? notesForVehicle(installer.id, found.request) : Promise.resolve([]),
+		found.booking ? fitsAwaitingNote(installer.id, found.booking.id) : Promise.resolve(false)
 	]);
 	const [form, askForm] = await Promise.all([
 		superValidate(defaults, zod4(quoteFormSchema), { errors: false }),
@@ -72,6 +75,9 @@ export const load: PageServerLoad = async ({ params }) => {
 			totalCents: Number(r.snapshot.totalCents)
 		})),
 		photos,
+		fitNotes,
+		publishNoteHref:
+			mayPublishNote && found.booking ? `/installer/fit-notes/publish/${found.booking.id}` : null,
 		messages: messages.map((m) => ({ ...m, mine: m.authorId === installer.id })),
 		mayQuote:
 			found.status === 'collecting_quotes' &&

@@ -13,6 +13,10 @@ import { lateFeeCents } from '$lib/server/stripe';
 import { formatSlotLabel } from '$lib/schedule';
 import type { Actions, PageServerLoad } from './$types';
 import { titleOrUntitled } from '$lib/posted-job';
+import { stageWords } from '$lib/lifecycle';
+import { confirmWork } from '$lib/server/completion';
+import { formatAud } from '$lib/money';
+import { formatDayTime } from '$lib/time';
 
 const NOT_FOUND = 'There is no such booking among yours.';
 
@@ -58,7 +62,14 @@ export const load: PageServerLoad = async ({ params, url }) => {
 			// Back from the hosted checkout before the provider's event has arrived.
 			confirming: url.searchParams.has('paid') && b.status === 'awaiting_payment'
 		},
-		cancelPreview,
+		cancelPreview: b.stage === 'to_fit' ? cancelPreview : null,
+		fit: {
+			stage: b.stage,
+			words: stageWords(b.stage),
+			reported: b.reportedAt !== null,
+			confirmBy: b.confirmBy ? formatDayTime(b.confirmBy, row.timeZone, now) : null,
+			mayAnswer: b.stage === 'reported' && b.confirmBy !== null && now < b.confirmBy
+		},
 		reviews: await getReviewPanel(b.id, owner.id, 'owner', now),
 		jobId: row.jobId,
 		title: titleOrUntitled(row.title),
@@ -86,5 +97,18 @@ export const actions = {
 		const result = await cancelPaidBooking(params.id, 'owner', owner.id);
 		if (!result.ok) return refusalFail(result);
 		redirectWithNotice(cookies, `/owner/bookings/${params.id}`, `Cancelled. ${result.rule}`);
+	},
+	confirm: async ({ params, cookies }) => {
+		const owner = requireRole('owner');
+		const result = await confirmWork(params.id, owner.id);
+		if (!result.ok) return refusalFail(result);
+		const release = result.release;
+		redirectWithNotice(
+			cookies,
+			`/owner/bookings/${params.id}`,
+			release.ok
+				? `Thank you: the work is confirmed and ${formatAud(release.payoutCents)} has been released to the installer.`
+				: 'Thank you: the work is confirmed. Releasing the held funds is taking longer than usual; we retry automatically and the installer is paid as soon as it goes through.'
+		);
 	}
 } satisfies Actions;

@@ -6,13 +6,19 @@ import { draftProblems, listJobPhotos, postJob } from '$lib/server/jobs';
 import { loadEditableJob } from '../editable-job';
 import { requireConfirmedRole } from '$lib/server/http/guards';
 import { getMarketSettings, scopeMarketOf } from '$lib/server/settings';
+import { countFitsOfBodyStyle, similarFitMinutes } from '$lib/server/calibration';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const { job } = await loadEditableJob(params.id);
 	const problems = draftProblems(job);
 	const parsed = jobRequestSchema.safeParse(job.draft);
-	const photos = await listJobPhotos(job.id);
+	const [photos, market, fitMinutes, bodyStyleFits] = await Promise.all([
+		listJobPhotos(job.id),
+		getMarketSettings(),
+		parsed.success ? similarFitMinutes(parsed.data) : [],
+		parsed.success ? countFitsOfBodyStyle(parsed.data.bodyStyle) : null
+	]);
 	return {
 		// What the owner entered, shown above the sheet with a way back to each step.
 		entered: parsed.success ? parsed.data : null,
@@ -20,9 +26,9 @@ export const load: PageServerLoad = async ({ params }) => {
 		addressLine: job.addressLine,
 		photos,
 		problems,
-		scope: parsed.success
-			? computeScope(parsed.data, scopeMarketOf(await getMarketSettings()))
-			: null,
+		scope: parsed.success ? computeScope(parsed.data, scopeMarketOf(market), fitMinutes) : null,
+		// Only a count: owners never see installers' fit notes.
+		bodyStyleFits,
 		posted: job.status !== 'drafting',
 		place: job.suburb,
 		windows: job.preferredWindows
