@@ -288,7 +288,7 @@ function bodyArb(known: string[], poison: boolean): fc.Arbitrary<Body> {
 		.chain((names) =>
 			fc
 				.tuple(
-					...names.map((key) =>
+					...names.map(() =>
 						fc.record({ value: hostileString, raw: fc.constantFrom(...RAW_TOKENS) })
 					)
 				)
@@ -550,7 +550,8 @@ async function send(t: RouteTarget, r: FuzzRequest): Promise<APIResponse | null>
 			}
 		}
 		throw new Error(
-			`No answer (${String(e).slice(0, 200)}); the last requests were:\n${recent.join('\n')}`
+			`No answer (${String(e).slice(0, 200)}); the last requests were:\n${recent.join('\n')}`,
+			{ cause: e }
 		);
 	}
 }
