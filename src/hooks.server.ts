@@ -20,6 +20,7 @@ import {
 	SERVICE_UNAVAILABLE_MESSAGE
 } from '$lib/server/http/unavailable';
 import { tileSource } from '$lib/map-tiles';
+import { decodedPath, UNREADABLE_ADDRESS_MESSAGE } from '$lib/server/http/address';
 
 export const init: ServerInit = async () => {
 	if (building || env.TAPLINE_WORKER === 'off') return;
@@ -55,8 +56,16 @@ const handleResponse: Handle = async ({ event, resolve }) => {
 };
 
 // A NUL (%00) in the path or query reaches no route: route params and searches would carry it to
-// PostgreSQL, which refuses it with a 500.
+// PostgreSQL, which refuses it with a 500. A path that cannot be decoded (`/owner/%FF`) is answered
+// here with a Response, not thrown: SvelteKit does not catch what a hook throws for such a path,
+// and the rejection would stop the process (see address.ts).
 const handleBadAddress: Handle = async ({ event, resolve }) => {
+	if (decodedPath(event.url.pathname) === null) {
+		return new Response(UNREADABLE_ADDRESS_MESSAGE, {
+			status: 400,
+			headers: { 'content-type': 'text/plain; charset=utf-8' }
+		});
+	}
 	if (/%00/.test(event.url.pathname + event.url.search)) {
 		error(400, 'This address contains a character Tapline cannot read (%00).');
 	}

@@ -171,6 +171,62 @@ test('a NUL in the address or a route parameter is a 400, not a 500', async ({
 	}
 });
 
+// Found by the fuzz suite (fuzz.spec.ts): a path with a broken %-encoding in a role's area made a
+// hook redirect or refuse it, SvelteKit left that rejection unhandled and the app process stopped.
+test('a path with a broken %-encoding is a 400 wherever it points, and the app keeps answering', async ({
+	request,
+	installerPage
+}) => {
+	const paths = [
+		'/owner/%FF',
+		'/owner/jobs/%C3%28/vehicle',
+		'/admin/users/aaaa%FF',
+		'/installer/%E2%80',
+		'/%FF%00'
+	];
+	for (const path of paths) {
+		for (const [who, context] of [
+			['anonymous', request],
+			['installer', installerPage.request]
+		] as const) {
+			const get = await context.get(path, { maxRedirects: 0 });
+			expect({ who, path, status: get.status() }).toEqual({ who, path, status: 400 });
+			const post = await context.post(`${path}?/reinstate`, {
+				headers: { origin: BASE_URL },
+				maxRedirects: 0
+			});
+			expect({ who, path, status: post.status() }).toEqual({ who, path, status: 400 });
+		}
+	}
+	// Still up: a page answers after all of them.
+	expect((await request.get('/sign-in')).status()).toBe(200);
+});
+
+// Found by the fuzz suite: a file posted where a time belongs was a 500 (the refused form, file
+// and all, could not be sent back to the page).
+test('a file where working hours belong is a 400, and the hours stay as they were', async ({
+	installerPage
+}) => {
+	const hours = () =>
+		query(
+			`SELECT h.* FROM installer_hours h JOIN "user" u ON u.id = h.installer_id
+			 WHERE u.email = $1 ORDER BY h.weekday`,
+			[DEMO.installer]
+		);
+	const before = await hours();
+	const res = await installerPage.request.post('/installer/hours?/saveHours', {
+		headers: { origin: BASE_URL, accept: 'text/html' },
+		multipart: {
+			days: '1',
+			start: { name: 'start.txt', mimeType: 'text/plain', buffer: Buffer.from('08:00') },
+			end: '17:00'
+		},
+		maxRedirects: 0
+	});
+	expect(res.status()).toBe(400);
+	expect(await hours()).toEqual(before);
+});
+
 test('actions that read the form themselves answer an unreadable body with 400', async ({
 	request,
 	browser

@@ -41,10 +41,13 @@ export const signUpSchema = z.object({
 	password: newPassword
 });
 
+/** The longest sign-in return path the form takes; longer ones are not offered (guards.ts). */
+export const REDIRECT_TO_MAX_LENGTH = 500;
+
 export const signInSchema = z.object({
 	email,
 	password: textField({ error: 'Enter your password' }).min(1, 'Enter your password').max(128),
-	redirectTo: textField().max(500).optional()
+	redirectTo: textField().max(REDIRECT_TO_MAX_LENGTH).optional()
 });
 
 export const forgotPasswordSchema = z.object({ email });

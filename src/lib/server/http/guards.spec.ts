@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { areaFor, normalisePath } from './guards';
+import { REDIRECT_TO_MAX_LENGTH } from '$lib/forms/auth';
+import { areaFor, normalisePath, signInUrl } from './guards';
 
 describe('role areas, however the path is spelled', () => {
 	// Spellings a router or a browser may read as the same path (RFC 3986 section 2.1 percent-
@@ -34,5 +35,26 @@ describe('role areas, however the path is spelled', () => {
 
 	it('normalises to the lower-case, decoded path', () => {
 		expect(normalisePath('/%4Fwner//Jobs/./x/..')).toBe('/owner/jobs/');
+	});
+});
+
+describe('signInUrl', () => {
+	const back = (href: string) =>
+		new URLSearchParams(signInUrl(new URL(href, 'http://tapline.test')).split('?')[1] ?? '').get(
+			'redirectTo'
+		);
+
+	it('returns to the page and its query', () => {
+		expect(back('/owner/jobs?page=2')).toBe('/owner/jobs?page=2');
+	});
+
+	it('drops a query that would make the return path longer than the sign-in form takes', () => {
+		const path = `/owner/jobs?q=${'x'.repeat(REDIRECT_TO_MAX_LENGTH)}`;
+		expect(back(path)).toBe('/owner/jobs');
+	});
+
+	it('leaves out a path that is too long by itself', () => {
+		const href = `/owner/${'x'.repeat(REDIRECT_TO_MAX_LENGTH)}`;
+		expect(signInUrl(new URL(href, 'http://tapline.test'))).toBe('/sign-in');
 	});
 });

@@ -2,6 +2,7 @@ import { error, redirect } from '@sveltejs/kit';
 import { getRequestEvent } from '$app/server';
 import type { SessionInfo, SessionUser } from '../auth';
 import type { Role } from '../db/schema';
+import { REDIRECT_TO_MAX_LENGTH } from '$lib/forms/auth';
 
 /** URL areas and who may enter them; checked in hooks for every request, actions included. */
 export const ROLE_AREAS: ReadonlyArray<{ prefix: string; role: Role }> = [
@@ -40,9 +41,16 @@ export function areaFor(pathname: string) {
 	return ROLE_AREAS.find((a) => path === a.prefix || path.startsWith(`${a.prefix}/`));
 }
 
-/** Where to send a visitor with no session: the sign-in page, returning here afterwards. */
+/**
+ * Where to send a visitor with no session: the sign-in page, returning here afterwards. A return
+ * path longer than the sign-in form takes loses its query, or is left out: the form would refuse
+ * it (a hidden field the person cannot fix), and a huge Location header breaks some clients.
+ */
 export function signInUrl(url: URL) {
-	return `/sign-in?${new URLSearchParams({ redirectTo: url.pathname + url.search }).toString()}`;
+	const back = [url.pathname + url.search, url.pathname].find(
+		(path) => path.length <= REDIRECT_TO_MAX_LENGTH
+	);
+	return back ? `/sign-in?${new URLSearchParams({ redirectTo: back }).toString()}` : '/sign-in';
 }
 
 /**
