@@ -3,7 +3,8 @@
  * messages between its owner and installer say happened, merged into one list in time order.
  * Bookings keep no history of status changes, so only what has a time of its own is an entry:
  * the booking made, the end of its hold, each payment step, each event from the payment provider
- * about it, each ledger transaction, each message.
+ * about it, each ledger transaction, each message, and the work's own steps: each fit report, the
+ * acceptance of the work, and each step of a dispute.
  */
 import type { LedgerTransaction } from './server/db/schema';
 
@@ -29,6 +30,14 @@ export type TimelineEntry =
 			entries: { account: LedgerAccountName; amountCents: number }[];
 	  }
 	| {
+			kind: 'work';
+			key: string;
+			at: Date;
+			/** Words for the step, e.g. "Fit report filed (visit 1)". */
+			title: string;
+			detail: string | null;
+	  }
+	| {
 			kind: 'message';
 			key: string;
 			at: Date;
@@ -48,7 +57,8 @@ const KIND_ORDER: Record<TimelineEntry['kind'], number> = {
 	'provider-event': 1,
 	payment: 2,
 	ledger: 3,
-	message: 4
+	work: 4,
+	message: 5
 };
 
 /** Orders two entries by time, then kind (KIND_ORDER), then key: never a tie for distinct keys. */

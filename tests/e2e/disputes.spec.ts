@@ -1,11 +1,12 @@
 /**
- * A booking that ends in a partial refund: the owner pays through the provider's page, the fit is
- * reported (set in the database: the fit report form is built elsewhere), the owner raises a
- * problem with a photo, the installer answers from the e-mailed link, and an admin settles with a
- * partial refund; both sides then read the outcome. Rules: the lifecycle issue's "Disputes".
+ * A booking that ends in a partial refund: the owner pays through the provider's page, the
+ * installer files the fit report, the owner raises a problem with a photo, the installer answers
+ * from the e-mailed link, and an admin settles with a partial refund; both sides then read the
+ * outcome. Rules: the lifecycle issue's "Disputes".
  */
 import type { Page } from '@playwright/test';
 import { DEMO, expect, jpegPhoto, linkIn, signIn, test, waitForMail } from './fixtures';
+import { fileFitReport, REQUEST } from './support/fit-booking';
 import { closeQueries, newAccount, query, signedIn } from './support/requests';
 
 test.afterAll(closeQueries);
@@ -32,7 +33,9 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 	const hour = Math.floor(Date.now() / 3_600_000) % 5000;
 	const [made] = await query<{ booking_id: string }>(
 		`with i as (select id from "user" where email = $2),
-		j as (insert into job (owner_id, title, status) values ($1, $3, 'booked') returning id),
+		j as (insert into job (owner_id, title, status, request, cameras, power, body_style, suburb)
+			values ($1, $3, 'booked', $6::jsonb, 'front-rear', 'hardwired-parking', 'hatchback', 'Walkerville')
+			returning id),
 		q as (insert into quote (job_id, installer_id, status, total_cents)
 			select j.id, i.id, 'accepted', $4 from j, i returning id, job_id, installer_id)
 		insert into booking (job_id, quote_id, installer_id, owner_id, slot_start, slot_end,
@@ -42,7 +45,7 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 			timestamptz '2029-01-01T02:00:00Z' + make_interval(hours => $5),
 			'awaiting_payment', now() + interval '30 minutes', $4 from q
 		returning id as booking_id`,
-		[owner.id, INSTALLER, title, TOTAL_CENTS, hour * 3]
+		[owner.id, INSTALLER, title, TOTAL_CENTS, hour * 3, JSON.stringify(REQUEST)]
 	);
 	const bookingId = made!.booking_id;
 	const ownerPage = await owner.context.newPage();
@@ -53,12 +56,11 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 	await payWithCard(ownerPage, '4242 4242 4242 4242');
 	await expect(ownerPage.getByTestId('booking-status')).toHaveText('Confirmed');
 
-	// The fit is reported (set-up only): the owner's 72-hour window is open.
-	await query(
-		`update booking set stage = 'reported', reported_at = now(), confirm_by = now() + interval '72 hours'
-		 where id = $1`,
-		[bookingId]
-	);
+	// The installer files the fit report through the page: the owner's 72-hour window opens.
+	const installer = await signedIn(browser, INSTALLER);
+	const reporting = await installer.newPage();
+	await fileFitReport(reporting, bookingId, await jpegPhoto(), { rear: true });
+	await reporting.close();
 	await ownerPage.reload();
 	await ownerPage.getByTestId('fit-stage').getByRole('link', { name: 'Raise a problem' }).click();
 	await expect(ownerPage.getByRole('heading', { name: 'Raise a problem' })).toBeVisible();
@@ -80,7 +82,6 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 
 	// The installer follows the e-mailed link and answers with their side.
 	const mail = await waitForMail(INSTALLER, new RegExp(`A problem was raised: ${title}`));
-	const installer = await signedIn(browser, INSTALLER);
 	const installerPage = await installer.newPage();
 	await installerPage.goto(linkIn(mail, '/installer/bookings/'));
 	await expect(installerPage.getByTestId('dispute-timeline')).toContainText('trim clip is broken');

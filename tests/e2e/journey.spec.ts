@@ -150,7 +150,10 @@ test('post, quote, book, pay, fit report, confirm, release, both reviews, and th
 	await admin.goto(`/admin/bookings?q=${model}`);
 	await admin.getByTestId('booking-row').getByRole('link', { name: title }).click();
 	await expect(admin).toHaveURL(new RegExp(`/admin/bookings/${bookingId}$`));
-	await expect(admin.locator('main')).toContainText('Released');
+	const timeline = admin.getByTestId('timeline');
+	await expect(timeline).toContainText('Fit report filed (visit 1)');
+	await expect(timeline).toContainText('Work confirmed by the owner');
+	await expect(timeline).toContainText('Released');
 	await admin.goto('/admin/payouts');
 	const payoutRow = admin.getByTestId('payout-row').filter({ hasText: title });
 	await expect(payoutRow).toBeVisible();

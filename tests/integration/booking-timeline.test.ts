@@ -2,12 +2,15 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getBookingTimeline } from '$lib/server/admin-bookings';
 import { db } from '$lib/server/db';
-import { jobMessage } from '$lib/server/db/schema';
+import { fitReport, jobMessage } from '$lib/server/db/schema';
+import { confirmWork, openConfirmationWindow } from '$lib/server/completion';
+import { withMail } from '$lib/server/mail/outbox';
 import { releaseHeldFunds } from '$lib/server/payments';
 import { postJobMessage } from '$lib/server/threads';
 import {
 	bookAndOpenCheckout,
 	onboardInstaller,
+	paidBookingIn,
 	payWith,
 	startPaymentsWorld,
 	type PaymentsWorld
@@ -113,6 +116,36 @@ describe('the admin booking timeline', () => {
 		if (release?.kind !== 'ledger') throw new Error('no release in the ledger');
 		expect(release.entries.reduce((sum, e) => sum + e.amountCents, 0)).toBe(0);
 		expect(release.entries.some((e) => e.account === 'installer_payable')).toBe(true);
+	});
+
+	it('shows the work: the fit report filed, then the owner confirming it', async () => {
+		const made = await paidBookingIn(world);
+		const filedAt = new Date();
+		await withMail(async (tx, mail) => {
+			const opened = await openConfirmationWindow(tx, mail, made.bookingId, filedAt);
+			if (!opened.ok) throw new Error(opened.message);
+			await tx.insert(fitReport).values({
+				bookingId: made.bookingId,
+				installerId: made.chosen.installerId,
+				minutesTaken: 90,
+				details: {},
+				filedAt
+			});
+		});
+		const confirmed = await confirmWork(made.bookingId, made.ownerId);
+		expect(confirmed.ok).toBe(true);
+		const timeline = await getBookingTimeline(made.bookingId);
+		const work = timeline!.entries.filter((e) => e.kind === 'work');
+		expect(work.map((e) => (e.kind === 'work' ? e.title : ''))).toEqual([
+			'Fit report filed (visit 1)',
+			'Work confirmed by the owner'
+		]);
+		// In time order with the rest: the release's ledger lines come after the confirmation.
+		const keys = timeline!.entries.map((e) => e.key);
+		const release = timeline!.entries.find(
+			(e) => e.kind === 'ledger' && e.transactionKind === 'release'
+		);
+		expect(keys.indexOf('accepted')).toBeLessThan(keys.indexOf(release!.key));
 	});
 
 	it('is null for a booking that does not exist', async () => {

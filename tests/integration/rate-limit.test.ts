@@ -1,7 +1,7 @@
 // Sign-in throttling against PostgreSQL (issue 11, item 2): attempts are taken before the password
 // check, so a parallel burst gets its allowance and no more; a stranger's guesses lock their own
 // address out of the account, not its holder; the reset link clears the account-wide lock.
-import { eq } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { createAccount, requestPasswordReset, resetPassword, signIn } from '$lib/server/accounts';
 import { db } from '$lib/server/db';
@@ -11,7 +11,8 @@ import {
 	ADDRESS_ATTEMPTS,
 	MESSAGES_PER_WINDOW,
 	PAIR_ATTEMPTS,
-	QUOTE_SUBMISSIONS
+	QUOTE_SUBMISSIONS,
+	SIGN_UP_NOTICES
 } from '$lib/server/rate-limit';
 import { submitQuote } from '$lib/server/quotes';
 import { postJobMessage } from '$lib/server/threads';
@@ -89,6 +90,24 @@ describe('sign-in throttling (counters in PostgreSQL)', () => {
 		for (let i = 0; i < PAIR_ATTEMPTS - 1; i++) {
 			expect(outcome(await signIn(email, 'guess', '192.0.2.7'))).toBe(400);
 		}
+	});
+});
+
+describe('sign-up notices under a parallel burst', () => {
+	it('sends at most SIGN_UP_NOTICES "you already have an account" e-mails, however many arrive at once', async () => {
+		const email = await account();
+		const burst = await Promise.all(
+			Array.from({ length: 12 }, () =>
+				createAccount({ email, password, displayName: 'Again', role: 'owner' })
+			)
+		);
+		// Every answer is the same as for a free address: no account made, nothing revealed.
+		expect(burst.every((r) => r.ok && r.user === null)).toBe(true);
+		const notices = await db
+			.select({ id: emailOutbox.id })
+			.from(emailOutbox)
+			.where(and(eq(emailOutbox.toAddress, email), eq(emailOutbox.template, 'sign-up-existing')));
+		expect(notices).toHaveLength(SIGN_UP_NOTICES);
 	});
 });
 

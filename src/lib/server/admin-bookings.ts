@@ -7,13 +7,16 @@
 import { and, asc, desc, eq, gte, ilike, inArray, lt, or, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { stringify } from 'csv-stringify/sync';
-import { BOOKING_STATUS_LABELS } from '$lib/labels';
+import { BOOKING_STATUS_LABELS, DISPUTE_EVENT_LABELS } from '$lib/labels';
 import { titleOrUntitled } from '$lib/posted-job';
 import { formatInZone, localToUtc } from '$lib/time';
 import { bookingEntries, mergeTimeline, paymentEntries, type TimelineEntry } from '$lib/timeline';
 import { db } from './db';
 import {
 	booking,
+	dispute,
+	disputeEvent,
+	fitReport,
 	installerProfile,
 	job,
 	jobMessage,
@@ -274,6 +277,7 @@ export async function getBookingTimeline(bookingId: string): Promise<BookingTime
 				.orderBy(desc(ledgerEntry.amountCents), asc(ledgerEntry.id))
 		: [];
 
+	const work = await workEntries(bookingId);
 	const paid = payments[0];
 	const { createdAt, holdExpiresAt, ...header } = head;
 	return {
@@ -285,6 +289,7 @@ export async function getBookingTimeline(bookingId: string): Promise<BookingTime
 		entries: mergeTimeline(
 			bookingEntries({ createdAt, holdExpiresAt }),
 			paid ? paymentEntries(paid) : [],
+			work,
 			events.map((e) => ({
 				kind: 'provider-event' as const,
 				key: `event:${e.eventId}`,
@@ -317,4 +322,64 @@ export async function getBookingTimeline(bookingId: string): Promise<BookingTime
 			}))
 		)
 	};
+}
+
+const ACCEPTED_WORDS: Record<string, string> = {
+	owner: 'Work confirmed by the owner',
+	window: 'Work confirmed: the confirmation window closed',
+	settlement: 'Work settled by Tapline'
+};
+
+/**
+ * The work's own steps on a booking's timeline: each fit report, the acceptance of the work and
+ * each step of its disputes (words in DISPUTE_EVENT_LABELS).
+ */
+async function workEntries(bookingId: string): Promise<TimelineEntry[]> {
+	const [reports, accepted, steps] = await Promise.all([
+		db
+			.select({ id: fitReport.id, visit: fitReport.visit, filedAt: fitReport.filedAt })
+			.from(fitReport)
+			.where(eq(fitReport.bookingId, bookingId)),
+		db
+			.select({ at: booking.acceptedAt, by: booking.acceptedBy })
+			.from(booking)
+			.where(eq(booking.id, bookingId)),
+		db
+			.select({
+				id: disputeEvent.id,
+				kind: disputeEvent.kind,
+				body: disputeEvent.body,
+				at: disputeEvent.createdAt
+			})
+			.from(disputeEvent)
+			.innerJoin(dispute, eq(dispute.id, disputeEvent.disputeId))
+			.where(eq(dispute.bookingId, bookingId))
+	]);
+	const entries: TimelineEntry[] = reports.map((r) => ({
+		kind: 'work',
+		key: `fit-report:${r.id}`,
+		at: r.filedAt,
+		title: `Fit report filed (visit ${String(r.visit)})`,
+		detail: null
+	}));
+	const done = accepted[0];
+	if (done?.at) {
+		entries.push({
+			kind: 'work',
+			key: 'accepted',
+			at: done.at,
+			title: ACCEPTED_WORDS[done.by ?? ''] ?? 'Work confirmed',
+			detail: null
+		});
+	}
+	for (const step of steps) {
+		entries.push({
+			kind: 'work',
+			key: `dispute:${step.id}`,
+			at: step.at,
+			title: `Dispute: ${DISPUTE_EVENT_LABELS[step.kind]}`,
+			detail: step.body
+		});
+	}
+	return entries;
 }

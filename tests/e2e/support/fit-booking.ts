@@ -11,7 +11,8 @@ import { BASE_URL, newAccount, newInstallerWithProfile, query } from './requests
 export const PASSWORD = 'long enough passphrase';
 export const PHONE = { width: 375, height: 740 };
 
-const REQUEST = {
+/** A job request as the owner's steps store it: a hatch, mini blade fuses, front and rear. */
+export const REQUEST = {
 	make: 'Demo',
 	model: 'Hatch',
 	year: '2019',
