@@ -18,6 +18,7 @@ import {
 	user
 } from '$lib/server/db/schema';
 import { withMail } from '$lib/server/mail/outbox';
+import { cancelPaidBooking } from '$lib/server/payments';
 import { sendDueReminders } from '$lib/server/reminders';
 import {
 	answerProposal,
@@ -248,6 +249,24 @@ describe('proposing and answering a new time', () => {
 		expect(
 			await proposeNewTime(made.bookingId, made.owner, time(workday(4), '09:00', '11:00'))
 		).toMatchObject({ status: 409 });
+	});
+});
+
+describe('a cancelled booking', () => {
+	it('closes a new time still waiting for an answer', async () => {
+		const made = await paid();
+		expect(
+			(await proposeNewTime(made.bookingId, made.installer, time(workday(3), '09:00', '11:00'))).ok
+		).toBe(true);
+		const cancelled = await cancelPaidBooking(made.bookingId, 'owner', made.ownerId);
+		expect(cancelled.ok).toBe(true);
+		const proposals = await db
+			.select({ status: rescheduleProposal.status, answeredAt: rescheduleProposal.answeredAt })
+			.from(rescheduleProposal)
+			.where(eq(rescheduleProposal.bookingId, made.bookingId));
+		expect(proposals).toHaveLength(1);
+		expect(proposals[0]!.status).toBe('withdrawn');
+		expect(proposals[0]!.answeredAt).toBeInstanceOf(Date);
 	});
 });
 

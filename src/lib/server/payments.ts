@@ -28,6 +28,7 @@ import {
 	payment,
 	paymentEvent,
 	quote,
+	rescheduleProposal,
 	user
 } from './db/schema';
 import { heldCents, postLedgerTransaction } from './ledger';
@@ -876,6 +877,13 @@ export async function cancelPaidBooking(
 				});
 			}
 			await tx.update(booking).set({ status: 'cancelled' }).where(eq(booking.id, bookingId));
+			// A new time still waiting for an answer has nothing left to move.
+			await tx
+				.update(rescheduleProposal)
+				.set({ status: 'withdrawn', answeredAt: now })
+				.where(
+					and(eq(rescheduleProposal.bookingId, bookingId), eq(rescheduleProposal.status, 'open'))
+				);
 			if (settlement.reopenJob) {
 				await tx
 					.update(job)
