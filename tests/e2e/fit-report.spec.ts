@@ -5,7 +5,7 @@
  * bookings); payment and payout go through the payments fake as in the app.
  */
 import { expect, jpegPhoto, test } from './fixtures';
-import { PHONE, paidBooking } from './support/fit-booking';
+import { fileFitReport, PHONE, paidBooking } from './support/fit-booking';
 import { closeQueries, newAccount } from './support/requests';
 
 test.afterAll(closeQueries);
@@ -28,52 +28,8 @@ test('the installer files the fit report on a phone; the owner reads the record 
 	await expect(phone.getByTestId('item-tapOrientation')).toContainText(
 		'Tick this, or mark it "does not apply" and say why'
 	);
-	const item = (name: string) => phone.getByTestId(`item-${name}`);
-	for (const [side, position, original] of [
-		['switchedTap', 'F12 cabin box', '10'],
-		['permanentTap', 'F30 cabin box', '15']
-	] as const) {
-		await item(side)
-			.getByRole('radio', { name: /^Tapped/ })
-			.check();
-		await item(side).getByLabel('Fuse position', { exact: true }).fill(position);
-		await item(side).getByLabel('Original fuse', { exact: true }).selectOption(original);
-		await item(side).getByLabel('Added circuit fuse', { exact: true }).selectOption('5');
-	}
-	await expect(phone.getByLabel('Fuse family of the taps')).toHaveValue('mini');
-	await item('tapOrientation')
-		.getByRole('radio', { name: /^Checked/ })
-		.check();
-	await item('ground')
-		.getByRole('radio', { name: /^Grounded/ })
-		.check();
-	await item('ground')
-		.getByLabel('Ground point', { exact: true })
-		.fill('Kick-panel stud, passenger side');
-	await item('ground')
-		.getByRole('checkbox', { name: /^On bare metal/ })
-		.check();
-	await item('cutOff').getByRole('radio', { name: /^Set/ }).check();
-	await item('cutOff').getByLabel('Cut-off voltage (V)', { exact: true }).fill('12.0');
-	for (const name of ['parkingMode', 'cableHidden', 'cameraPlacement', 'rearDemister']) {
-		await item(name)
-			.getByRole('radio', { name: /^Checked/ })
-			.check();
-	}
-	await item('airbagRouting')
-		.getByRole('radio', { name: /^Does not apply/ })
-		.check();
-	await item('airbagRouting')
-		.getByLabel('Why it does not apply', { exact: true })
-		.fill('No curtain airbags in this vehicle');
-	await phone.getByLabel('Minutes on the vehicle').fill('95');
-	await phone.getByLabel('Photos').setInputFiles({
-		name: 'fuse-box.jpg',
-		mimeType: 'image/jpeg',
-		buffer: await jpegPhoto()
-	});
-	await phone.getByRole('button', { name: 'File the fit report' }).click();
-	await expect(phone).toHaveURL(new RegExp(`/installer/bookings/${bookingId}/record$`));
+	// Then every item answered, with a photo (the shared filling; it waits for the record).
+	await fileFitReport(phone, bookingId, await jpegPhoto(), { rear: true });
 	await expect(phone.getByText(/^Fit report filed/)).toBeVisible();
 	const record = phone.getByTestId('install-record');
 	await expect(record).toContainText(
