@@ -226,7 +226,11 @@ describe('npm start stops everything it started', () => {
 				new RegExp(`${signal === 'SIGHUP' && viaNpm ? 'npm' : signal}.*stopping`)
 			);
 
-			const s3Dir = path.join(ROOT, '.data', `fakes-${PG_PORT}`, 's3', 'start-test');
+			// Beside the cluster: in .data, or in the folder the scripts fall back to when the postgres
+			// user cannot reach the checkout (a clone in a private temporary folder).
+			const dataDir = new RegExp(`(\\S*pg-${PG_PORT})`).exec(postgres?.command ?? '')?.[1];
+			const base = dataDir ? path.dirname(dataDir) : path.join(ROOT, '.data');
+			const s3Dir = path.join(base, `fakes-${PG_PORT}`, 's3', 'start-test');
 			expect(existsSync(s3Dir) && readdirSync(s3Dir).some((f) => f.endsWith('.bin'))).toBe(true);
 		}
 	);
