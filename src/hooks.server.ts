@@ -21,6 +21,7 @@ import {
 } from '$lib/server/http/unavailable';
 import { tileSource } from '$lib/map-tiles';
 import { decodedPath, UNREADABLE_ADDRESS_MESSAGE } from '$lib/server/http/address';
+import { hasUnreadableCharset, UNREADABLE_CHARSET_MESSAGE } from '$lib/server/http/body-charset';
 
 export const init: ServerInit = async () => {
 	if (building || env.TAPLINE_WORKER === 'off') return;
@@ -68,6 +69,10 @@ const handleBadAddress: Handle = async ({ event, resolve }) => {
 	}
 	if (/%00/.test(event.url.pathname + event.url.search)) {
 		error(400, 'This address contains a character Tapline cannot read (%00).');
+	}
+	// A form body in another character set is read as an empty form (see body-charset.ts).
+	if (hasUnreadableCharset(event.request.headers.get('content-type'))) {
+		error(415, UNREADABLE_CHARSET_MESSAGE);
 	}
 	return resolve(event);
 };

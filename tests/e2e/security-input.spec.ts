@@ -227,6 +227,41 @@ test('a file where working hours belong is a 400, and the hours stay as they wer
 	expect(await hours()).toEqual(before);
 });
 
+// Found by the fuzz suite (seed 753609822): a form body declared as UTF-16 was read as an empty
+// form, which passed as "no working days" and wiped the installer's hours with a 200.
+test('a working-hours post that cannot be read, or lacks the times, is refused and changes nothing', async ({
+	installerPage
+}) => {
+	const hours = () =>
+		query(
+			`SELECT h.* FROM installer_hours h JOIN "user" u ON u.id = h.installer_id
+			 WHERE u.email = $1 ORDER BY h.weekday`,
+			[DEMO.installer]
+		);
+	const before = await hours();
+	expect(before.length).toBeGreaterThan(0);
+	const post = (contentType: string, body: string) =>
+		installerPage.request.post('/installer/hours?/saveHours', {
+			headers: { origin: BASE_URL, accept: 'text/html', 'content-type': contentType },
+			data: Buffer.from(body),
+			maxRedirects: 0
+		});
+	const cases: [string, string, number][] = [
+		['application/x-www-form-urlencoded; charset=utf-16', 'days=1&start=\u000008:00', 415],
+		['application/x-www-form-urlencoded; charset=UTF-16LE', '', 415],
+		['multipart/form-data; boundary=x; charset=iso-8859-1', '--x--\r\n', 415],
+		['application/x-www-form-urlencoded', '', 400],
+		['application/x-www-form-urlencoded', 'days=1', 400],
+		['text/plain', 'days=1', 400]
+	];
+	for (const [type, body, status] of cases) {
+		const res = await post(type, body);
+		expect({ type, body, status: res.status() }).toEqual({ type, body, status });
+		expect(await res.text()).not.toMatch(/at .*\.js:\d+|SELECT|INSERT/);
+	}
+	expect(await hours()).toEqual(before);
+});
+
 test('actions that read the form themselves answer an unreadable body with 400', async ({
 	request,
 	browser

@@ -117,8 +117,10 @@ export const HOURS_FORM_ORDER = [1, 2, 3, 4, 5, 6, 0] as const;
  */
 export const weeklyHoursSchema = z.object({
 	days: z.array(z.number().int().min(0).max(6)).default([]),
-	start: z.array(time).length(7).default(Array(7).fill('08:00')),
-	end: z.array(time).length(7).default(Array(7).fill('17:00'))
+	// No defaults: the page always sends a start and an end for each of the seven days, so a post
+	// without them (an empty or unreadable body) is refused instead of saving "no working days".
+	start: z.array(time).length(7, 'Give a start and an end time for each day'),
+	end: z.array(time).length(7, 'Give a start and an end time for each day')
 });
 
 export const blockedDateSchema = z.object({
