@@ -70,6 +70,10 @@ const handleBadAddress: Handle = async ({ event, resolve }) => {
 	if (/%00/.test(event.url.pathname + event.url.search)) {
 		error(400, 'This address contains a character Tapline cannot read (%00).');
 	}
+	// `?/default` names the default action, which SvelteKit reserves: it would throw (a 500).
+	if (event.request.method === 'POST' && event.url.searchParams.has('/default')) {
+		error(400, 'There is no form action by that name. Reload the page and try again.');
+	}
 	// A form body in another character set is read as an empty form (see body-charset.ts).
 	if (hasUnreadableCharset(event.request.headers.get('content-type'))) {
 		error(415, UNREADABLE_CHARSET_MESSAGE);

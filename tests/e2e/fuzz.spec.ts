@@ -14,6 +14,8 @@ import type { APIRequestContext, APIResponse } from '@playwright/test';
 import fc from 'fast-check';
 import { DEMO, expect, test } from './fixtures';
 import { BASE_URL, closeQueries, query, signedIn } from './support/requests';
+import { changedTables, tableChecksums } from './support/checksums';
+import { LEAKS } from './support/leaks';
 import {
 	fieldNames,
 	fillPattern,
@@ -449,24 +451,6 @@ function urlOf(t: RouteTarget, r: FuzzRequest): string {
 	return `${BASE_URL}${path}${search ? `?${search}` : ''}`;
 }
 
-const STACK = [
-	/^\s+at .+(:\d+:\d+\)?|\(native\))$/m,
-	/node_modules/,
-	/\b\w*Error: [^\n]*\/(src|build|app)\//,
-	/\/(src|build)\/[\w/.-]+\.(ts|js):\d+/
-];
-const SQL = [
-	/SELECT [\s\S]{0,200} FROM /,
-	/INSERT INTO/,
-	/UPDATE "?\w+"? SET/,
-	/syntax error at or near/,
-	/violates (foreign key|unique|check|not-null) constraint/,
-	/relation "/,
-	/invalid input syntax for/,
-	/drizzle/i,
-	/DrizzleQueryError|PostgresError|error: column/
-];
-
 /**
  * The status and redirect an answer stands for. A form action asked for JSON (as `use:enhance`
  * does) answers 200 with `{ type, status, location }` in the body; that inner status counts.
@@ -511,15 +495,6 @@ const counts = {
 // Tables whose rows change on their own: rate_limit (throttling counters), session (expiry is
 // extended on use; only which sessions exist is compared) and email_outbox (the sender marks rows
 // sent in the background; only which messages exist is compared).
-const SKIPPED_TABLES = new Set(['rate_limit', '__drizzle_migrations']);
-const ID_ONLY_TABLES = new Set(['session', 'email_outbox']);
-let checksumSql = '';
-
-async function checksums(): Promise<Record<string, string>> {
-	const [row] = await query<Record<string, string>>(checksumSql);
-	return row!;
-}
-
 /** The last few requests sent, named in the error when the app stops answering. */
 const recent: string[] = [];
 
@@ -572,7 +547,7 @@ async function check(t: RouteTarget, r: FuzzRequest, res: APIResponse | null): P
 	expect(status, `${where}: no 5xx\n${text.slice(0, 500)}`).toBeLessThan(500);
 	const expected = EXPECTED_STATUS[targetName(t)];
 	if (expected) expect(expected, where).toContain(status);
-	for (const pattern of [...STACK, ...SQL]) {
+	for (const pattern of LEAKS) {
 		const m = pattern.exec(text);
 		expect(m?.[0], `${where}: the body shows ${pattern}`).toBeUndefined();
 	}
@@ -601,19 +576,6 @@ test.beforeAll(async ({ browser }) => {
 		UNION ALL (SELECT id::text FROM job_photo LIMIT 2)
 		UNION ALL (SELECT id::text FROM installer_document LIMIT 2)`);
 	realIds = ids.map((r) => r.id);
-	const tables = await query<{ name: string }>(
-		`SELECT table_name AS name FROM information_schema.tables
-		 WHERE table_schema = 'public' AND table_type = 'BASE TABLE' ORDER BY table_name`
-	);
-	checksumSql =
-		'SELECT ' +
-		tables
-			.filter((t) => !SKIPPED_TABLES.has(t.name))
-			.map(({ name }) => {
-				const value = ID_ONLY_TABLES.has(name) ? 't.id::text' : 't::text';
-				return `(SELECT md5(coalesce(string_agg(${value}, ',' ORDER BY ${value}), '')) FROM "${name}" t) AS "${name}"`;
-			})
-			.join(',\n');
 });
 
 test.afterAll(async () => {
@@ -644,7 +606,7 @@ for (const target of TARGETS) {
 		// that was let through and may have written, to the end. Every request in a batch was
 		// refused, poisoned (a NUL in every value) or a GET (a load or a data route, which never
 		// writes), so no row may differ.
-		let baseline: Record<string, string> | undefined = await checksums();
+		let baseline: Record<string, string> | undefined = await tableChecksums();
 		let batch: string[] = [];
 		// The time budget: runs after the deadline pass without sending (at least one run sends).
 		const deadline = Date.now() + TIME_PER_TARGET_MS;
@@ -656,7 +618,7 @@ for (const target of TARGETS) {
 					if (sent > 0 && Date.now() > deadline) return;
 					sent++;
 					counts.runs++;
-					baseline ??= await checksums();
+					baseline ??= await tableChecksums();
 					for (const r of requests) {
 						const res = await send(target, r);
 						counts.requests++;
@@ -681,8 +643,8 @@ for (const target of TARGETS) {
 		);
 		if (!baseline || batch.length === 0) return;
 		counts.comparisons++;
-		const after = await checksums();
-		const changed = Object.keys(baseline).filter((table) => baseline![table] !== after[table]);
+		const after = await tableChecksums();
+		const changed = changedTables(baseline, after);
 		expect(
 			changed,
 			`seed ${SEED}: rows changed although every request was refused or a GET:\n${batch.join('\n')}`

@@ -262,6 +262,19 @@ test('a working-hours post that cannot be read, or lacks the times, is refused a
 	expect(await hours()).toEqual(before);
 });
 
+// Found by the authorisation matrix: SvelteKit reserves the name of the default action, and a post
+// to `?/default` threw (a 500).
+test('a post to the reserved action name is a 400', async ({ request }) => {
+	for (const path of ['/sign-in?/default', '/forgot-password?/default']) {
+		const res = await request.post(path, {
+			form: { email: 'nobody@example.test' },
+			headers: { origin: BASE_URL, accept: 'text/html' },
+			maxRedirects: 0
+		});
+		expect({ path, status: res.status() }).toEqual({ path, status: 400 });
+	}
+});
+
 test('actions that read the form themselves answer an unreadable body with 400', async ({
 	request,
 	browser

@@ -19,7 +19,9 @@ export const GET: RequestHandler = async ({ url }) => {
 		lat: url.searchParams.get('lat') ?? '',
 		lng: url.searchParams.get('lng') ?? ''
 	});
-	if (!parsed.success || url.searchParams.get('lat') === '' || url.searchParams.get('lng') === '')
+	// A missing or empty lat or lng is not 0 (found by the authorisation matrix: no query was
+	// read as the point 0, 0).
+	if (!parsed.success || !url.searchParams.get('lat') || !url.searchParams.get('lng'))
 		error(400, 'Give the point as lat and lng in degrees.');
 	try {
 		return json({ place: await reversePlace(parsed.data.lat, parsed.data.lng) });
