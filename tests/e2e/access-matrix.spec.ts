@@ -29,7 +29,7 @@ import {
 } from './access-matrix.table';
 import { changedTables, tableChecksums } from './support/checksums';
 import { LEAKS } from './support/leaks';
-import { fileFitReport, paidBooking } from './support/fit-booking';
+import { fileFitReport, paidBooking, raiseProblem } from './support/fit-booking';
 import {
 	BASE_URL,
 	BROWSER_HEADERS,
@@ -216,17 +216,11 @@ test.beforeAll(async ({ browser }) => {
 	// The fit report, filed through the page, then a problem raised with a photo.
 	await fileFitReport(phone, bookingId, await jpegPhoto(), { rear: true });
 	await ownerPage.goto(`/owner/bookings/${bookingId}/problem`);
-	await ownerPage.getByLabel('Cable visible or trim damaged').check();
-	await ownerPage
-		.getByLabel('Tell us what happens')
-		.fill('A trim clip by the rear cable came away after the fit.');
-	await ownerPage.locator('input[name="photos"]').setInputFiles({
-		name: 'trim.jpg',
-		mimeType: 'image/jpeg',
-		buffer: await jpegPhoto()
-	});
-	await ownerPage.getByRole('button', { name: 'Raise the problem' }).click();
-	await expect(ownerPage.getByText('Problem raised.')).toBeVisible();
+	await raiseProblem(
+		ownerPage,
+		'A trim clip by the rear cable came away after the fit.',
+		await jpegPhoto()
+	);
 	contexts.owner = ownerPage.context().request;
 	contexts.installer = phone.context().request;
 	closers.push(
@@ -238,25 +232,20 @@ test.beforeAll(async ({ browser }) => {
 	const created = await postForm(contexts.owner, '/owner/jobs/new', {});
 	const draftJob = /\/owner\/jobs\/([0-9a-f-]{36})/.exec(created.headers()['location'] ?? '')?.[1];
 	expect(draftJob, 'a draft job').toBeTruthy();
-	const photo = await contexts.owner.post(`/owner/jobs/${draftJob}/photos?/upload`, {
-		multipart: {
-			kind: 'fuse-box',
-			photo: { name: 'fuses.jpg', mimeType: 'image/jpeg', buffer: await jpegPhoto() }
-		},
-		headers: BROWSER_HEADERS,
-		maxRedirects: 0
-	});
-	expect(photo.status(), 'the job photo uploads').toBeLessThan(400);
-	const document = await contexts.installer.post('/installer/documents?/upload', {
-		multipart: {
-			// Not a gallery photo, which a public profile shows to everyone: a private one.
-			kind: 'photo-id',
-			file: { name: 'licence.jpg', mimeType: 'image/jpeg', buffer: await jpegPhoto() }
-		},
-		headers: BROWSER_HEADERS,
-		maxRedirects: 0
-	});
-	expect(document.status(), 'the document uploads').toBeLessThan(400);
+	const upload = async (request: APIRequestContext, path: string, kind: string, file: string) => {
+		const res = await request.post(path, {
+			multipart: {
+				kind,
+				[file]: { name: `${kind}.jpg`, mimeType: 'image/jpeg', buffer: await jpegPhoto() }
+			},
+			headers: BROWSER_HEADERS,
+			maxRedirects: 0
+		});
+		expect(res.status(), `${path} uploads`).toBeLessThan(400);
+	};
+	await upload(contexts.owner, `/owner/jobs/${draftJob}/photos?/upload`, 'fuse-box', 'photo');
+	// Not a gallery photo, which a public profile shows to everyone: a private one.
+	await upload(contexts.installer, '/installer/documents?/upload', 'photo-id', 'file');
 
 	// The other personas.
 	const otherOwner = await newAccount(browser, 'owner', 'matrix-other-owner');

@@ -6,7 +6,7 @@
  */
 import type { Page } from '@playwright/test';
 import { DEMO, expect, jpegPhoto, linkIn, signIn, test, waitForMail } from './fixtures';
-import { fileFitReport, REQUEST } from './support/fit-booking';
+import { fileFitReport, raiseProblem, REQUEST } from './support/fit-booking';
 import { closeQueries, newAccount, query, signedIn } from './support/requests';
 
 test.afterAll(closeQueries);
@@ -64,17 +64,11 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 	await ownerPage.reload();
 	await ownerPage.getByTestId('fit-stage').getByRole('link', { name: 'Raise a problem' }).click();
 	await expect(ownerPage.getByRole('heading', { name: 'Raise a problem' })).toBeVisible();
-	await ownerPage.getByLabel('Cable visible or trim damaged').check();
-	await ownerPage
-		.getByLabel('Tell us what happens')
-		.fill('The rear cable hangs below the headliner and a trim clip is broken.');
-	await ownerPage.locator('input[name="photos"]').setInputFiles({
-		name: 'trim.jpg',
-		mimeType: 'image/jpeg',
-		buffer: await jpegPhoto()
-	});
-	await ownerPage.getByRole('button', { name: 'Raise the problem' }).click();
-	await expect(ownerPage.getByText('Problem raised.')).toBeVisible();
+	await raiseProblem(
+		ownerPage,
+		'The rear cable hangs below the headliner and a trim clip is broken.',
+		await jpegPhoto()
+	);
 	await expect(ownerPage.getByTestId('dispute-status')).toHaveText('Open: with a Tapline admin');
 	const opened = ownerPage.getByTestId('dispute-timeline').locator('[data-kind="opened"]');
 	await expect(opened).toContainText('a trim clip is broken');

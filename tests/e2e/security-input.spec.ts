@@ -202,18 +202,20 @@ test('a path with a broken %-encoding is a 400 wherever it points, and the app k
 	expect((await request.get('/sign-in')).status()).toBe(200);
 });
 
+/** The demo installer's working hours, as rows. */
+const demoInstallerHours = () =>
+	query(
+		`SELECT h.* FROM installer_hours h JOIN "user" u ON u.id = h.installer_id
+		 WHERE u.email = $1 ORDER BY h.weekday`,
+		[DEMO.installer]
+	);
+
 // Found by the fuzz suite: a file posted where a time belongs was a 500 (the refused form, file
 // and all, could not be sent back to the page).
 test('a file where working hours belong is a 400, and the hours stay as they were', async ({
 	installerPage
 }) => {
-	const hours = () =>
-		query(
-			`SELECT h.* FROM installer_hours h JOIN "user" u ON u.id = h.installer_id
-			 WHERE u.email = $1 ORDER BY h.weekday`,
-			[DEMO.installer]
-		);
-	const before = await hours();
+	const before = await demoInstallerHours();
 	const res = await installerPage.request.post('/installer/hours?/saveHours', {
 		headers: { origin: BASE_URL, accept: 'text/html' },
 		multipart: {
@@ -224,7 +226,7 @@ test('a file where working hours belong is a 400, and the hours stay as they wer
 		maxRedirects: 0
 	});
 	expect(res.status()).toBe(400);
-	expect(await hours()).toEqual(before);
+	expect(await demoInstallerHours()).toEqual(before);
 });
 
 // Found by the fuzz suite (seed 753609822): a form body declared as UTF-16 was read as an empty
@@ -232,13 +234,7 @@ test('a file where working hours belong is a 400, and the hours stay as they wer
 test('a working-hours post that cannot be read, or lacks the times, is refused and changes nothing', async ({
 	installerPage
 }) => {
-	const hours = () =>
-		query(
-			`SELECT h.* FROM installer_hours h JOIN "user" u ON u.id = h.installer_id
-			 WHERE u.email = $1 ORDER BY h.weekday`,
-			[DEMO.installer]
-		);
-	const before = await hours();
+	const before = await demoInstallerHours();
 	expect(before.length).toBeGreaterThan(0);
 	const post = (contentType: string, body: string) =>
 		installerPage.request.post('/installer/hours?/saveHours', {
@@ -259,7 +255,7 @@ test('a working-hours post that cannot be read, or lacks the times, is refused a
 		expect({ type, body, status: res.status() }).toEqual({ type, body, status });
 		expect(await res.text()).not.toMatch(/at .*\.js:\d+|SELECT|INSERT/);
 	}
-	expect(await hours()).toEqual(before);
+	expect(await demoInstallerHours()).toEqual(before);
 });
 
 // Found by the authorisation matrix: SvelteKit reserves the name of the default action, and a post

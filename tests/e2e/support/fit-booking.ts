@@ -169,3 +169,19 @@ export async function fileFitReport(
 	await page.getByRole('button', { name: 'File the fit report' }).click();
 	await expect(page).toHaveURL(new RegExp(`/installer/bookings/${bookingId}/record$`));
 }
+
+/**
+ * On the owner's "Raise a problem" page: picks the cable-or-trim reason, describes it, adds one
+ * photo and raises it; waits for the confirmation.
+ */
+export async function raiseProblem(page: Page, description: string, photo: Buffer) {
+	await page.getByLabel('Cable visible or trim damaged').check();
+	await page.getByLabel('Tell us what happens').fill(description);
+	await page.locator('input[name="photos"]').setInputFiles({
+		name: 'trim.jpg',
+		mimeType: 'image/jpeg',
+		buffer: photo
+	});
+	await page.getByRole('button', { name: 'Raise the problem' }).click();
+	await expect(page.getByText('Problem raised.')).toBeVisible();
+}
