@@ -23,6 +23,7 @@ import { requireSession } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalFail, refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async () => {
 	const { user, session } = requireSession();
@@ -44,7 +45,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	changeName: async ({ request, cookies }) => {
 		const { user } = requireSession();
-		const form = await superValidate(request, zod4(displayNameSchema), { id: 'name' });
+		const form = await readForm(request, zod4(displayNameSchema), { id: 'name' });
 		if (!form.valid) return fail(400, { form });
 		const result = await changeDisplayName(user.id, form.data.displayName);
 		if (!result.ok) return refusalMessage(form, result);
@@ -52,7 +53,7 @@ export const actions = {
 	},
 	changeEmail: async ({ request, cookies }) => {
 		const { user } = requireSession();
-		const form = await superValidate(request, zod4(emailChangeSchema), { id: 'email' });
+		const form = await readForm(request, zod4(emailChangeSchema), { id: 'email' });
 		const { passwordForEmail } = form.data;
 		form.data.passwordForEmail = '';
 		if (!form.valid) return fail(400, { form });
@@ -66,7 +67,7 @@ export const actions = {
 	},
 	changePassword: async ({ request, cookies }) => {
 		const { user, session } = requireSession();
-		const form = await superValidate(request, zod4(passwordChangeSchema), { id: 'password' });
+		const form = await readForm(request, zod4(passwordChangeSchema), { id: 'password' });
 		const typed = { ...form.data };
 		form.data = { currentPassword: '', newPassword: '', confirmPassword: '' };
 		if (!form.valid) return fail(400, { form });
@@ -104,7 +105,7 @@ export const actions = {
 	},
 	closeAccount: async ({ request, cookies }) => {
 		const { user } = requireSession();
-		const form = await superValidate(request, zod4(closeAccountSchema), { id: 'close' });
+		const form = await readForm(request, zod4(closeAccountSchema), { id: 'close' });
 		const { passwordToClose, confirm } = form.data;
 		form.data.passwordToClose = '';
 		if (!form.valid) return fail(400, { form });

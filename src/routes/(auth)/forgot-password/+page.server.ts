@@ -5,6 +5,7 @@ import { forgotPasswordSchema } from '$lib/forms/auth';
 import { requestPasswordReset } from '$lib/server/accounts';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async () => ({
 	form: await superValidate(zod4(forgotPasswordSchema))
@@ -12,7 +13,7 @@ export const load: PageServerLoad = async () => ({
 
 export const actions = {
 	default: async ({ request, getClientAddress }) => {
-		const form = await superValidate(request, zod4(forgotPasswordSchema));
+		const form = await readForm(request, zod4(forgotPasswordSchema));
 		if (!form.valid) return fail(400, { form });
 		const requested = await requestPasswordReset(form.data.email, getClientAddress());
 		if (!requested.ok) return refusalMessage(form, requested);

@@ -5,6 +5,7 @@ import { resetPasswordSchema } from '$lib/forms/auth';
 import { resetPassword } from '$lib/server/accounts';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ url }) => {
 	const token = url.searchParams.get('token') ?? '';
@@ -16,7 +17,7 @@ export const load: PageServerLoad = async ({ url }) => {
 
 export const actions = {
 	default: async ({ request, cookies }) => {
-		const form = await superValidate(request, zod4(resetPasswordSchema));
+		const form = await readForm(request, zod4(resetPasswordSchema));
 		const { password } = form.data;
 		form.data.password = '';
 		form.data.confirmPassword = '';

@@ -7,6 +7,7 @@ import { startSession } from '$lib/server/auth';
 import { homeFor } from '$lib/server/http/guards';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const redirectTo = safeRedirect(url.searchParams.get('redirectTo'), url.origin, '');
@@ -18,7 +19,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 
 export const actions = {
 	default: async ({ request, cookies, getClientAddress, url }) => {
-		const form = await superValidate(request, zod4(signInSchema));
+		const form = await readForm(request, zod4(signInSchema));
 		const { password } = form.data;
 		form.data.password = '';
 		if (!form.valid) return fail(400, { form });

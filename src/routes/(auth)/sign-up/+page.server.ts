@@ -5,6 +5,7 @@ import { signUpSchema } from '$lib/forms/auth';
 import { createAccount } from '$lib/server/accounts';
 import { homeFor } from '$lib/server/http/guards';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
 	if (locals.user) redirect(303, homeFor(locals.user.role));
@@ -14,7 +15,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 
 export const actions = {
 	default: async ({ request }) => {
-		const form = await superValidate(request, zod4(signUpSchema));
+		const form = await readForm(request, zod4(signUpSchema));
 		const { password } = form.data;
 		form.data.password = ''; // never echo a password back to the page
 		if (!form.valid) return fail(400, { form });

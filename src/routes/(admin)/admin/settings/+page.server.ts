@@ -10,6 +10,7 @@ import {
 	type MarketSettings
 } from '$lib/server/settings';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 /** The settings as the form shows them (percent and dollars). */
 const asForm = (s: MarketSettings) => ({
@@ -32,7 +33,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	default: async ({ request }) => {
 		const admin = requireRole('admin');
-		const form = await superValidate(request, zod4(marketSettingsSchema));
+		const form = await readForm(request, zod4(marketSettingsSchema));
 		if (!form.valid) return fail(400, { form });
 		const d = form.data;
 		const result = await updateMarketSettings(

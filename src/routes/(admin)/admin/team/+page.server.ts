@@ -6,6 +6,7 @@ import { createAdminAccount, listAdmins } from '$lib/server/accounts';
 import { requireRole } from '$lib/server/http/guards';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async () => {
 	requireRole('admin');
@@ -16,7 +17,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	createAdmin: async ({ request }) => {
 		const admin = requireRole('admin');
-		const form = await superValidate(request, zod4(adminInviteSchema));
+		const form = await readForm(request, zod4(adminInviteSchema));
 		if (!form.valid) return fail(400, { form });
 		const result = await createAdminAccount(admin, form.data);
 		if (!result.ok) return refusalMessage(form, result);

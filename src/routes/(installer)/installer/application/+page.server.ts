@@ -8,6 +8,7 @@ import { getInstallerProfile, saveApplication, type BasePlace } from '$lib/serve
 import { INSTALLER_SKILLS, stageOf, type InstallerSkill } from '$lib/vetting';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 const workModeOf = (p: {
 	offersMobile: boolean;
@@ -42,7 +43,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	default: async ({ request }) => {
 		const installer = requireRole('installer');
-		const form = await superValidate(request, zod4(applicationSchema));
+		const form = await readForm(request, zod4(applicationSchema));
 		if (!form.valid) return fail(400, { form });
 		const current = await getInstallerProfile(installer.id);
 		// Geocode only when the suburb is new, so a pin moved on the service-area map stays put.

@@ -16,6 +16,7 @@ import { DOCUMENT_KINDS, mayRemoveDocument, stageOf, type DocumentKind } from '$
 import { refusalFail, refusalMessage } from '$lib/server/http/respond';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 const removeSchema = z.object({
 	id: z.uuid({ error: 'There is no such document among yours.' }),
@@ -48,7 +49,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	saveInsurance: async ({ request }) => {
 		const installer = requireRole('installer');
-		const form = await superValidate(request, zod4(insuranceSchema));
+		const form = await readForm(request, zod4(insuranceSchema));
 		if (!form.valid) return fail(400, { form });
 		const { coverDollars, ...rest } = form.data;
 		const result = await saveInsuranceDetails(installer.id, {

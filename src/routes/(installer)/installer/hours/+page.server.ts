@@ -1,5 +1,5 @@
 import { fail } from '@sveltejs/kit';
-import { message, setError, superValidate, withFiles } from 'sveltekit-superforms';
+import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { isCalendarDate } from '$lib/forms/fields';
 import { blockedDateSchema, HOURS_FORM_ORDER, weeklyHoursSchema } from '$lib/forms/vetting';
@@ -19,6 +19,7 @@ import { fitRow } from '$lib/day-rows';
 import { validateWeeklyHours, type Weekday, type WeeklyHours } from '$lib/schedule';
 import { localDate } from '$lib/vetting';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 /** Booked fits the hours page lists before its link to all of them. */
 const BOOKED_SHOWN = 10;
@@ -54,10 +55,9 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	saveHours: async ({ request }) => {
 		const installer = requireRole('installer');
-		const form = await superValidate(request, zod4(weeklyHoursSchema));
-		// A file posted where a time belongs stays in the form's data; it cannot be sent back to the
-		// page (a 500), so it is taken out of the answer (found by the fuzz suite).
-		if (!form.valid) return fail(400, withFiles({ hoursForm: form }));
+		const form = await readForm(request, zod4(weeklyHoursSchema));
+		// readForm takes a file posted where a time belongs out of a refused form.
+		if (!form.valid) return fail(400, { hoursForm: form });
 		if (!(await getInstallerProfile(installer.id))) {
 			return message(form, 'Save your application details first.', { status: 400 });
 		}
@@ -74,7 +74,7 @@ export const actions = {
 	},
 	block: async ({ request }) => {
 		const installer = requireRole('installer');
-		const form = await superValidate(request, zod4(blockedDateSchema));
+		const form = await readForm(request, zod4(blockedDateSchema));
 		if (!form.valid) return fail(400, { blockForm: form });
 		const p = await getInstallerProfile(installer.id);
 		if (!p) return message(form, 'Save your application details first.', { status: 400 });

@@ -7,6 +7,7 @@ import { requireRole } from '$lib/server/http/guards';
 import { getInstallerProfile, saveServiceArea } from '$lib/server/installers';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async () => {
 	const installer = requireRole('installer');
@@ -32,7 +33,7 @@ export const load: PageServerLoad = async () => {
 export const actions = {
 	default: async ({ request }) => {
 		const installer = requireRole('installer');
-		const form = await superValidate(request, zod4(serviceAreaSchema));
+		const form = await readForm(request, zod4(serviceAreaSchema));
 		if (!form.valid) return fail(400, { form });
 		const current = await getInstallerProfile(installer.id);
 		if (!current) return message(form, 'Save your application details first.', { status: 400 });

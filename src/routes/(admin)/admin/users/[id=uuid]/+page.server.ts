@@ -13,6 +13,7 @@ import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const admin = requireRole('admin');
@@ -42,7 +43,7 @@ function action(
 		cookies: Cookies;
 	}) => {
 		const admin = requireRole('admin');
-		const form = await superValidate(request, zod4(accountActionSchema), { id });
+		const form = await readForm(request, zod4(accountActionSchema), { id });
 		if (!form.valid) return fail(400, { form });
 		const result = await run(admin.id, params.id, form.data.reason);
 		if (!result.ok) return refusalMessage(form, result);

@@ -8,6 +8,7 @@ import { refusalMessage } from '$lib/server/http/respond';
 import { DECISION_LABELS } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ params }) => {
 	requireRole('admin');
@@ -24,7 +25,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	decide: async ({ request, params, cookies }) => {
 		const admin = requireRole('admin');
-		const form = await superValidate(request, zod4(decisionSchema));
+		const form = await readForm(request, zod4(decisionSchema));
 		if (!form.valid) return fail(400, { form });
 		const { decision, expectedStatus, message: text, ...checklist } = form.data;
 		const result = await decideApplication({

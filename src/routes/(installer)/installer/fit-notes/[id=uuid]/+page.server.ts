@@ -9,6 +9,7 @@ import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { orError, refusalFail, refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const installer = requireRole('installer');
@@ -24,7 +25,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	mark: async ({ request, params, cookies }) => {
 		const installer = requireRole('installer');
-		const markForm = await superValidate(request, zod4(fitNoteMarkSchema));
+		const markForm = await readForm(request, zod4(fitNoteMarkSchema));
 		if (!markForm.valid) return fail(400, { markForm });
 		const marked = await markFitNote(installer.id, params.id, markForm.data);
 		if (!marked.ok) return refusalMessage(markForm, marked);

@@ -18,6 +18,7 @@ import { redirectWithNotice } from '$lib/server/http/notice';
 import { cancelPaidBooking } from '$lib/server/payments';
 import { feeOf, getMarketSettings } from '$lib/server/settings';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 const NOT_FOUND = 'There is no such job on your board.';
 
@@ -104,7 +105,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	quote: async ({ request, params, cookies }) => {
 		const { installer, ctx } = await context();
-		const form = await superValidate(request, zod4(quoteFormSchema));
+		const form = await readForm(request, zod4(quoteFormSchema));
 		if (!form.valid) return fail(400, { form });
 		let input;
 		try {
@@ -147,7 +148,7 @@ export const actions = {
 	ask: async ({ request, params, cookies }) => {
 		requireConfirmedRole('installer');
 		const { installer } = await context();
-		const askForm = await superValidate(request, zod4(threadMessageSchema));
+		const askForm = await readForm(request, zod4(threadMessageSchema));
 		if (!askForm.valid) return fail(400, { askForm });
 		const sent = await postJobMessage(
 			params.id,

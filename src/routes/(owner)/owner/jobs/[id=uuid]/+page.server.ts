@@ -8,6 +8,7 @@ import { adjustOpenJob, getOwnedJob, listJobPhotos, withdrawJob } from '$lib/ser
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const owner = requireRole('owner');
@@ -35,7 +36,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	adjust: async ({ request, params }) => {
 		const owner = requireRole('owner');
-		const form = await superValidate(request, zod4(adjustJobSchema), { id: 'adjust' });
+		const form = await readForm(request, zod4(adjustJobSchema), { id: 'adjust' });
 		if (!form.valid) return fail(400, { adjustForm: form });
 		const result = await adjustOpenJob(params.id, owner.id, {
 			windows: chosenWindows(form.data),
@@ -51,7 +52,7 @@ export const actions = {
 	},
 	withdraw: async ({ request, params }) => {
 		const owner = requireRole('owner');
-		const form = await superValidate(request, zod4(withdrawSchema));
+		const form = await readForm(request, zod4(withdrawSchema));
 		if (!form.valid) return fail(400, { withdrawForm: form });
 		const result = await withdrawJob(params.id, owner.id, form.data.reason);
 		if (!result.ok) return refusalMessage(form, result);

@@ -7,6 +7,7 @@ import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalMessage } from '$lib/server/http/respond';
 import { getReviewPanel, replyToReview, submitReview } from '$lib/server/reviews';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 const NOT_FOUND = 'There is no such booking among yours.';
 
@@ -24,7 +25,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	review: async ({ params, request, cookies }) => {
 		const installer = requireRole('installer');
-		const form = await superValidate(request, zod4(installerReviewSchema));
+		const form = await readForm(request, zod4(installerReviewSchema));
 		if (!form.valid) return fail(400, { form });
 		const result = await submitReview(params.id, installer.id, 'installer', form.data);
 		if (!result.ok) return refusalMessage(form, result);
@@ -36,7 +37,7 @@ export const actions = {
 	},
 	reply: async ({ params, request, cookies }) => {
 		const installer = requireRole('installer');
-		const replyForm = await superValidate(request, zod4(reviewReplySchema), { id: 'reply' });
+		const replyForm = await readForm(request, zod4(reviewReplySchema), { id: 'reply' });
 		if (!replyForm.valid) return fail(400, { replyForm });
 		const result = await replyToReview(params.id, installer.id, replyForm.data.reply);
 		if (!result.ok) return refusalMessage(replyForm, result);

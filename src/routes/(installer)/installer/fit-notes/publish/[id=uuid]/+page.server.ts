@@ -8,6 +8,7 @@ import { redirectWithNotice } from '$lib/server/http/notice';
 import { orError, refusalMessage } from '$lib/server/http/respond';
 import { titleOrUntitled } from '$lib/posted-job';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 // The route's id is the booking's: a note is published from a fit the installer reported.
 export const load: PageServerLoad = async ({ params }) => {
@@ -41,7 +42,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	default: async ({ request, params, cookies }) => {
 		const installer = requireRole('installer');
-		const form = await superValidate(request, zod4(fitNoteSchema));
+		const form = await readForm(request, zod4(fitNoteSchema));
 		if (!form.valid) return fail(400, { form });
 		const published = await publishFitNote(installer.id, params.id, form.data);
 		if (!published.ok) return refusalMessage(form, published);

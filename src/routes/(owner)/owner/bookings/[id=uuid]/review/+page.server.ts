@@ -7,6 +7,7 @@ import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalMessage } from '$lib/server/http/respond';
 import { getReviewPanel, submitReview } from '$lib/server/reviews';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 const NOT_FOUND = 'There is no such booking among yours.';
 
@@ -20,7 +21,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	review: async ({ params, request, cookies }) => {
 		const owner = requireRole('owner');
-		const form = await superValidate(request, zod4(ownerReviewSchema));
+		const form = await readForm(request, zod4(ownerReviewSchema));
 		if (!form.valid) return fail(400, { form });
 		const result = await submitReview(params.id, owner.id, 'owner', form.data);
 		if (!result.ok) return refusalMessage(form, result);

@@ -6,6 +6,7 @@ import { GeocoderUnavailable, reversePlace, searchPlaces } from '$lib/server/geo
 import { checkPreferredDates, saveJobStep } from '$lib/server/jobs';
 import { finishStep, loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const { job } = await loadEditableJob(params.id);
@@ -18,7 +19,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	default: async ({ request, params }) => {
 		const { owner, job } = await loadEditableJob(params.id);
-		const form = await superValidate(request, zod4(placeStepSchema));
+		const form = await readForm(request, zod4(placeStepSchema));
 		if (!form.valid) return fail(400, { form });
 		const d = form.data;
 

@@ -5,6 +5,7 @@ import { powerStepSchema } from '$lib/forms/job';
 import { saveJobStep } from '$lib/server/jobs';
 import { finishStep, loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const { job } = await loadEditableJob(params.id);
@@ -20,7 +21,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	default: async ({ request, params }) => {
 		const { owner } = await loadEditableJob(params.id);
-		const form = await superValidate(request, zod4(powerStepSchema));
+		const form = await readForm(request, zod4(powerStepSchema));
 		if (!form.valid) return fail(400, { form });
 		const parking = form.data.power === 'hardwired-parking' || form.data.power === 'obd';
 		const values = parking

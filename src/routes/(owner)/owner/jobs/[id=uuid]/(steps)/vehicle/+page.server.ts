@@ -5,6 +5,7 @@ import { vehicleStepSchema } from '$lib/forms/job';
 import { saveJobStep } from '$lib/server/jobs';
 import { finishStep, loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
+import { readForm } from '$lib/server/http/read-form';
 
 export const load: PageServerLoad = async ({ params }) => {
 	const { job } = await loadEditableJob(params.id);
@@ -14,7 +15,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	default: async ({ request, params }) => {
 		const { owner } = await loadEditableJob(params.id);
-		const form = await superValidate(request, zod4(vehicleStepSchema));
+		const form = await readForm(request, zod4(vehicleStepSchema));
 		if (!form.valid) return fail(400, { form });
 		const title = `${form.data.year} ${form.data.make} ${form.data.model}`;
 		const result = await saveJobStep(params.id, owner.id, 'vehicle', form.data, { title });

@@ -16,6 +16,7 @@ import { CONTACTS_HIDDEN_NOTE } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
 import { titleOrUntitled } from '$lib/posted-job';
+import { readForm } from '$lib/server/http/read-form';
 
 const bookSchema = z.object({
 	quoteId: z.uuid(),
@@ -88,7 +89,7 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	book: async ({ request, params }) => {
 		const owner = requireConfirmedRole('owner');
-		const bookForm = await superValidate(request, zod4(bookSchema));
+		const bookForm = await readForm(request, zod4(bookSchema));
 		if (!bookForm.valid) return fail(400, { bookForm });
 		const result = await bookQuote(owner.id, params.id, bookForm.data.quoteId, bookForm.data.slot);
 		if (!result.ok) return refusalMessage(bookForm, result);
@@ -96,7 +97,7 @@ export const actions = {
 	},
 	reply: async ({ request, params, cookies }) => {
 		const owner = requireConfirmedRole('owner');
-		const replyForm = await superValidate(request, zod4(threadMessageSchema));
+		const replyForm = await readForm(request, zod4(threadMessageSchema));
 		if (!replyForm.valid) return fail(400, { replyForm });
 		const sent = await postJobMessage(
 			params.id,
