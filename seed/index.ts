@@ -196,7 +196,8 @@ function demoTrail(
 	}
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) {
+/** `npm run db:seed` (through scripts/run-ts.mjs): loads the scenario into DATABASE_URL. */
+export async function main(): Promise<void> {
 	const url = process.env.DATABASE_URL;
 	if (!url) throw new Error('DATABASE_URL is not set');
 	const seeded = await seedDemo(url);

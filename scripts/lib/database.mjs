@@ -52,7 +52,8 @@ export async function migrateDatabase(url) {
 /**
  * Loads the demo scenario when the database has no accounts yet, through `run` (a report's run).
  * Returns 'loaded' or 'already there'. The check is a query here, so a later start does not pay
- * for starting tsx; the seed checks again itself. `storageEnv` (S3_ENDPOINT and the rest) lets
+ * for starting Vite; the seed checks again itself. It runs through scripts/run-ts.mjs, which needs
+ * nothing generated (no `.svelte-kit`, no build), so a fresh clone seeds before its first build. `storageEnv` (S3_ENDPOINT and the rest) lets
  * the seed store the demo documents' files, so the object store must be running first.
  */
 export async function seedDatabase(url, run, storageEnv = {}) {
@@ -64,7 +65,7 @@ export async function seedDatabase(url, run, storageEnv = {}) {
 	} finally {
 		await client.end();
 	}
-	const output = await run(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['seed/index.ts'], {
+	const output = await run(process.execPath, ['scripts/run-ts.mjs', 'seed/index.ts'], {
 		env: { ...storageEnv, DATABASE_URL: url }
 	});
 	return /skipped/.test(output) ? 'already there' : 'loaded';
