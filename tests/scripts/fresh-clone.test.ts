@@ -105,11 +105,15 @@ it('a fresh clone of HEAD starts with `npm start` alone, serves a signed-in page
 	expect(landing.status).toBe(200);
 	expect(await landing.text()).toContain('Tapline');
 
-	// Sign in as the demo owner the seed made, as the sign-in form posts it.
+	// Sign in as the demo owner the seed made, as the sign-in form posts it without JavaScript.
 	const signIn = await fetch(`${origin}/sign-in`, {
 		method: 'POST',
 		redirect: 'manual',
-		headers: { 'content-type': 'application/x-www-form-urlencoded', origin },
+		headers: {
+			'content-type': 'application/x-www-form-urlencoded',
+			accept: 'text/html',
+			origin
+		},
 		body: new URLSearchParams({
 			email: 'demo.owner@tapline.test',
 			password: 'tapline-demo-2026'
