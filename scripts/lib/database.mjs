@@ -70,3 +70,18 @@ export async function seedDatabase(url, run, storageEnv = {}) {
 	});
 	return /skipped/.test(output) ? 'already there' : 'loaded';
 }
+
+/** True when every account of the demo tour (src/lib/demo-tour.js) exists with its role. */
+export async function hasDemoAccounts(url, accounts) {
+	const client = new pg.Client({ connectionString: url });
+	await client.connect();
+	try {
+		const { rows } = await client.query(
+			'SELECT count(*)::int AS n FROM "user" u JOIN unnest($1::text[], $2::text[]) AS t(email, role) ON u.email = t.email AND u.role::text = t.role',
+			[accounts.map((a) => a.email), accounts.map((a) => a.role)]
+		);
+		return rows[0]?.n === accounts.length;
+	} finally {
+		await client.end();
+	}
+}

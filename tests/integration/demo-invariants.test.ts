@@ -22,6 +22,7 @@ import {
 	vettingEvent
 } from '$lib/server/db/schema';
 import { getWeeklyHours } from '$lib/server/diary';
+import { demoTourIfLoaded } from '$lib/server/demo-tour';
 import { findLedgerProblems } from '$lib/server/ledger';
 import { reconcileWithProvider } from '$lib/server/receipts';
 import { seedDemo } from '../../seed';
@@ -55,6 +56,10 @@ describe('the demo obeys the product’s rules', () => {
 			'cancelled/to_fit'
 		])
 			expect(seen, state).toContain(state);
+	});
+
+	it('has the accounts the first screen points to', async () => {
+		expect(await demoTourIfLoaded()).not.toBeNull();
 	});
 
 	it('reaches every booking’s stage by the lifecycle’s moves at the recorded times', async () => {

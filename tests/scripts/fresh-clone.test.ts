@@ -13,6 +13,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, expect, it } from 'vitest';
 import { portIsFree, portOwner } from '../../scripts/lib/processes.mjs';
+import { DEMO_TOUR, DEMO_TOUR_PASSWORD } from '../../src/lib/demo-tour.js';
 import { alive, descendants, freePorts, waitFor } from './process-tree';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
@@ -103,31 +104,40 @@ it('a fresh clone of HEAD starts with `npm start` alone, serves a signed-in page
 	const origin = `http://127.0.0.1:${app}`;
 	const landing = await fetch(`${origin}/`);
 	expect(landing.status).toBe(200);
-	expect(await landing.text()).toContain('Tapline');
+	const landingText = await landing.text();
+	expect(landingText).toContain('Tapline');
 
-	// Sign in as the demo owner the seed made, as the sign-in form posts it without JavaScript.
-	const signIn = await fetch(`${origin}/sign-in`, {
-		method: 'POST',
-		redirect: 'manual',
-		headers: {
-			'content-type': 'application/x-www-form-urlencoded',
-			accept: 'text/html',
-			origin
-		},
-		body: new URLSearchParams({
-			email: 'demo.owner@tapline.test',
-			password: 'tapline-demo-2026'
-		})
-	});
-	expect(signIn.status).toBe(303);
-	expect(signIn.headers.get('location')).toBe('/owner');
-	const cookie = signIn.headers
-		.getSetCookie()
-		.map((c) => c.split(';')[0])
-		.join('; ');
-	const home = await fetch(`${origin}/owner`, { headers: { cookie }, redirect: 'manual' });
-	expect(home.status).toBe(200);
-	expect(await home.text()).toContain('Marnie Okafor');
+	// The first screen says what to try, in the terminal and on the landing page, and every page it
+	// names opens for its demo account, signed in as the sign-in form posts it without JavaScript.
+	expect(landingText).toContain('Try the demo');
+	for (const account of DEMO_TOUR) {
+		expect(output).toContain(account.email);
+		const signIn = await fetch(`${origin}/sign-in`, {
+			method: 'POST',
+			redirect: 'manual',
+			headers: {
+				'content-type': 'application/x-www-form-urlencoded',
+				accept: 'text/html',
+				origin
+			},
+			body: new URLSearchParams({ email: account.email, password: DEMO_TOUR_PASSWORD })
+		});
+		expect(signIn.status, account.email).toBe(303);
+		expect(signIn.headers.get('location')).toBe(`/${account.role}`);
+		const cookie = signIn.headers
+			.getSetCookie()
+			.map((c) => c.split(';')[0])
+			.join('; ');
+		for (const stop of account.stops) {
+			expect(output).toContain(`${origin}${stop.path}`);
+			expect(landingText).toContain(`href="${stop.path}"`);
+			const page = await fetch(`${origin}${stop.path}`, {
+				headers: { cookie },
+				redirect: 'manual'
+			});
+			expect(page.status, `${account.email} ${stop.path}`).toBe(200);
+		}
+	}
 
 	const postgres = portOwner(PG_PORT) as { pid: number; command: string } | null;
 	expect(postgres?.command).toContain(`pg-${PG_PORT}`);
