@@ -6,13 +6,19 @@
 // top-level code runs on import; an exported `main()` is then awaited.
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { ROOT } from './lib/config.mjs';
+import { ROOT, appEnv, loadConfig } from './lib/config.mjs';
 
 const [file] = process.argv.slice(2);
 if (!file) {
 	console.error('usage: node scripts/run-ts.mjs <module.ts>');
 	process.exit(2);
 }
+
+// What `npm start` would set, for whatever the environment leaves unset: `npm run db:seed` then
+// seeds the start's database with `npm run fakes` running beside it.
+const config = loadConfig('start');
+const defaults = appEnv(config, process.env.DATABASE_URL ?? config.dbUrl('tapline'));
+for (const [name, value] of Object.entries(defaults)) process.env[name] ??= value;
 
 // Loaded here, not at the top: the packages must be installed before this runs.
 const { createServer } = await import('vite');
