@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startS3Fake } from '../../local-fakes/s3';
 import { db } from '$lib/server/db';
 import { getObject } from '$lib/server/files/storage';
-import { getMarketSettings } from '$lib/server/settings';
+import { getMarketSettings } from '$lib/server/money/settings';
 import { installerDocument, installerHours, installerProfile } from '$lib/server/db/schema';
 import {
 	approvalProblems,
@@ -13,7 +13,7 @@ import {
 	missingParts,
 	type Checklist,
 	type DocumentKind
-} from '$lib/vetting';
+} from '$lib/people/vetting';
 import { seedDemo } from '../../seed';
 import { DEMO_CONNECTED_ACCOUNTS } from '../../local-fakes/data/stripe-demo-accounts';
 

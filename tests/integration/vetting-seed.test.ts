@@ -2,11 +2,11 @@ import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { installerHours, installerProfile, user, vettingEvent } from '$lib/server/db/schema';
-import { canQuote, localDate } from '$lib/vetting';
+import { canQuote, localDate } from '$lib/people/vetting';
 import { seedDemo } from '../../seed';
 
 /**
- * The ABN check written out again, independently of $lib/abn (Australian Business Register,
+ * The ABN check written out again, independently of $lib/people/abn (Australian Business Register,
  * "ABN format": subtract 1 from the first digit, weight by 10, 1, 3, 5 … 19, sum divisible by 89).
  */
 function passesAbnCheck(abn: string) {
