@@ -1,7 +1,7 @@
 import { defineConfig } from 'drizzle-kit';
 
 export default defineConfig({
-	schema: './src/lib/server/db/schema.ts',
+	schema: './src/lib/server/db/schema',
 	out: './drizzle',
 	dialect: 'postgresql',
 	dbCredentials: { url: process.env.DATABASE_URL ?? 'postgres://tapline@127.0.0.1:54329/tapline' },

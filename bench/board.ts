@@ -28,10 +28,10 @@ import {
 	boardTotalSql,
 	REACHES,
 	type BoardInstaller
-} from '../src/lib/server/board-sql';
-import { requiredSkills } from '../src/lib/matching';
+} from '../src/lib/server/marketplace/board-sql';
+import { requiredSkills } from '../src/lib/marketplace/matching';
 import { BODY_STYLES, CAMERA_SETUPS, POWER_MODES } from '../src/lib/scope/request';
-import { INSTALLER_SKILLS } from '../src/lib/vetting';
+import { INSTALLER_SKILLS } from '../src/lib/people/vetting';
 
 const INSTALLERS = 10_000;
 const JOBS = 100_000;

@@ -12,7 +12,7 @@ import {
 	user,
 	vettingEvent
 } from '../src/lib/server/db/schema';
-import { hashPassword } from '../src/lib/server/password';
+import { hashPassword } from '../src/lib/server/people/password';
 import { DEMO_CONNECTED_ACCOUNTS } from '../local-fakes/data/stripe-demo-accounts';
 import { demoDocumentFiles, storeDemoObjects, type DemoObject } from './documents';
 import { seedDemoJobs } from './jobs';

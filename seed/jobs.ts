@@ -8,7 +8,7 @@ import type { NodePgDatabase } from 'drizzle-orm/node-postgres';
 import { job, user } from '../src/lib/server/db/schema';
 import type { JobRequestInput } from '../src/lib/scope';
 import { suburbPoint } from './scenario';
-import { postedJobColumns } from '../src/lib/posted-job';
+import { postedJobColumns } from '../src/lib/marketplace/posted-job';
 import { SAMPLE_REQUEST } from './sample-request';
 
 interface DemoJob {

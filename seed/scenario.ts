@@ -3,8 +3,8 @@
  * suburbs, postcodes and their coordinates are real (approximate centres).
  */
 import { ADELAIDE_SUBURBS } from '../local-fakes/data/adelaide-suburbs';
-import { isValidAbn } from '../src/lib/abn';
-import type { InstallerSkill } from '../src/lib/vetting';
+import { isValidAbn } from '../src/lib/people/abn';
+import type { InstallerSkill } from '../src/lib/people/vetting';
 
 export { DEMO_TOUR_PASSWORD as DEMO_PASSWORD } from '../src/lib/demo-tour.js';
 
@@ -237,7 +237,7 @@ export function demoWeeklyHours(index: number) {
 
 /**
  * The documents an application needs before it can be sent (and an admin can approve it): an
- * insurance certificate and photo ID (src/lib/vetting.ts, missingParts and approvalProblems).
+ * insurance certificate and photo ID (src/lib/people/vetting.ts, missingParts and approvalProblems).
  * The rows name objects under `demo/`; seed/documents.ts generates the files and stores them.
  * @param sizes the generated files' sizes in bytes
  */

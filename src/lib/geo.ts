@@ -2,7 +2,7 @@
  * Distance and location privacy. Tapline has one distance model, used for every decision, filter,
  * figure shown, circle drawn and travel fee: great-circle distance on the sphere of the WGS84 mean
  * radius that PostGIS uses for geography with `use_spheroid => false` (ST_DWithin, ST_Distance,
- * the <-> operator), so the pure code here and the SQL of $lib/server/matching agree to well
+ * the <-> operator), so the pure code here and the SQL of $lib/server/marketplace/matching agree to well
  * under a millimetre. The ellipsoid would change distances by a few tenths of a percent, which no
  * service radius needs, and a sphere keeps the browser, the server and PostgreSQL on one formula.
  */

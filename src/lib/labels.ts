@@ -2,16 +2,16 @@
  * The words people see for every status and option Tapline stores. One label per value, used on
  * every page and in every e-mail; no raw enum value reaches a screen.
  */
-import type { BoardSort } from './board';
-import type { DisputeReason, SettlementOutcome } from './disputes';
-import type { ReviewAspect } from './reviews';
+import type { BoardSort } from './marketplace/board';
+import type { DisputeReason, SettlementOutcome } from './work/disputes';
+import type { ReviewAspect } from './work/reviews';
 import type { TimeWindow } from './forms/job';
 import { formatDay } from './time';
 import type { FuseFamily } from './scope/fuses';
 import type { BodyStyle, CameraSetup, PowerMode } from './scope/request';
 // Types only (erased at build): the database enums are the one list of each status.
-import type { Booking, Job, LedgerTransaction, Quote, Role } from './server/db/schema';
-import type { LedgerAccountName, PaymentStep } from './timeline';
+import type { BookingStatus, JobStatus, LedgerKind, QuoteStatus, UserRole } from './statuses';
+import type { LedgerAccountName, PaymentStep } from './work/timeline';
 import type {
 	AdminDecision,
 	ChecklistItem,
@@ -20,10 +20,10 @@ import type {
 	QueueSort,
 	VettingAction,
 	VettingStage
-} from './vetting';
+} from './people/vetting';
 
 /** Who an account is on Tapline. */
-export const ROLE_LABELS: Record<Role, string> = {
+export const ROLE_LABELS: Record<UserRole, string> = {
 	owner: 'Car owner',
 	installer: 'Installer',
 	admin: 'Admin'
@@ -105,7 +105,7 @@ export const QUEUE_SORT_LABELS: Record<QueueSort, string> = {
 	expiry: 'Insurance expiring soonest'
 };
 
-export const JOB_STATUS_LABELS: Record<Job['status'], string> = {
+export const JOB_STATUS_LABELS: Record<JobStatus, string> = {
 	drafting: 'Draft',
 	collecting_quotes: 'Open for quotes',
 	booked: 'Booked',
@@ -177,7 +177,7 @@ export function labelOf(labels: Record<string, string>, value: string): string {
 }
 
 /** Where a quote stands, in the words both sides read. */
-export const QUOTE_STATUS_LABELS: Record<Quote['status'], string> = {
+export const QUOTE_STATUS_LABELS: Record<QuoteStatus, string> = {
 	live: 'Open',
 	accepted: 'Booked',
 	declined: 'Not chosen',
@@ -192,7 +192,7 @@ export const INSTALLER_ON_HOLD_TEXT =
 	'This quote is on hold: the installer cannot take bookings just now. Choose another quote or check back later.';
 
 /** Where a booking stands. */
-export const BOOKING_STATUS_LABELS: Record<Booking['status'], string> = {
+export const BOOKING_STATUS_LABELS: Record<BookingStatus, string> = {
 	awaiting_payment: 'Provisional: waiting for payment',
 	confirmed: 'Confirmed',
 	cancelled: 'Cancelled',
@@ -276,7 +276,7 @@ export const PAYOUTS_NEEDED_TEXT =
 	'Set up payouts before you quote: owners pay into held funds, and we need an account to pay you from them. It takes a few minutes under Payouts.';
 
 /** What a line of the held-funds ledger records, as shown on receipts and statements. */
-export const LEDGER_KIND_LABELS: Record<LedgerTransaction['kind'], string> = {
+export const LEDGER_KIND_LABELS: Record<LedgerKind, string> = {
 	payment: 'Paid into held funds',
 	release: 'Released to the installer',
 	refund: 'Refunded',
@@ -330,7 +330,7 @@ export const FIT_FUSE_FAMILY_LABELS: Record<FuseFamily, string> = {
 	micro3: 'Micro3'
 };
 
-/** The aspects each side of a booking rates the other on ($lib/reviews). */
+/** The aspects each side of a booking rates the other on ($lib/work/reviews). */
 export const REVIEW_ASPECT_LABELS: Record<ReviewAspect, string> = {
 	workmanship: 'Workmanship',
 	tidiness: 'Tidiness',

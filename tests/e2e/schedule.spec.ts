@@ -6,7 +6,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { Page } from '@playwright/test';
-import { formatSlotLabel } from '../../src/lib/schedule';
+import { formatSlotLabel } from '../../src/lib/work/schedule';
 import { formatInZone, localToUtc } from '../../src/lib/time';
 import { DEMO, expect, signIn, test, waitForMail } from './fixtures';
 import { closeQueries, query } from './support/requests';

@@ -3,7 +3,7 @@
 import { randomBytes } from 'node:crypto';
 import { and, eq, isNull } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
-import { authenticate, createAccount } from '$lib/server/accounts';
+import { authenticate, createAccount } from '$lib/server/people/accounts';
 import {
 	changeDisplayName,
 	changePassword,
@@ -14,16 +14,16 @@ import {
 	getAccountSettings,
 	requestEmailChange,
 	WRONG_CURRENT_PASSWORD
-} from '$lib/server/account-settings';
+} from '$lib/server/people/account-settings';
 import {
 	closeAccount,
 	CLOSED_ACCOUNT_NAME,
 	CLOSED_INSTALLER_PAUSE,
 	LAST_ADMIN,
 	previewAccountClosing
-} from '$lib/server/account-closing';
+} from '$lib/server/people/account-closing';
 import { sessionHandle } from '$lib/server/auth';
-import { bookQuote } from '$lib/server/bookings';
+import { bookQuote } from '$lib/server/marketplace/bookings';
 import { db } from '$lib/server/db';
 import {
 	emailOutbox,
@@ -36,12 +36,12 @@ import {
 	vettingEvent,
 	type Role
 } from '$lib/server/db/schema';
-import { suspendAccount } from '$lib/server/admin-users';
-import { getPublicProfile } from '$lib/server/installers';
-import { createDraftJob } from '$lib/server/jobs';
-import { hashPassword } from '$lib/server/password';
+import { suspendAccount } from '$lib/server/people/admin-users';
+import { getPublicProfile } from '$lib/server/people/installers';
+import { createDraftJob } from '$lib/server/marketplace/jobs';
+import { hashPassword } from '$lib/server/people/password';
 import { ACCOUNT_PASSWORD_CHECKS } from '$lib/server/rate-limit';
-import { submitQuote } from '$lib/server/quotes';
+import { submitQuote } from '$lib/server/marketplace/quotes';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 
 process.env.ORIGIN = 'http://tapline.test';

@@ -7,7 +7,7 @@ import {
 	requestPasswordReset,
 	resetPassword,
 	verifyEmailToken
-} from '$lib/server/accounts';
+} from '$lib/server/people/accounts';
 import { db } from '$lib/server/db';
 import { adminAudit, emailOutbox, emailToken, session, user } from '$lib/server/db/schema';
 

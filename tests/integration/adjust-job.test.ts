@@ -2,9 +2,9 @@ import { and, eq, inArray } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { emailOutbox, job } from '$lib/server/db/schema';
-import { adjustOpenJob, withdrawJob } from '$lib/server/jobs';
-import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
-import { submitQuote } from '$lib/server/quotes';
+import { adjustOpenJob, withdrawJob } from '$lib/server/marketplace/jobs';
+import { getInstallerContext, getJobForInstaller } from '$lib/server/marketplace/matching';
+import { submitQuote } from '$lib/server/marketplace/quotes';
 import {
 	ADELAIDE,
 	goodQuote,

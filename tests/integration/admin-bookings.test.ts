@@ -7,10 +7,10 @@ import {
 	countBookingsForAdmin,
 	exportBookingsCsv,
 	listBookingsForAdmin
-} from '$lib/server/admin-bookings';
+} from '$lib/server/marketplace/admin-bookings';
 import { db } from '$lib/server/db';
 import { booking, job } from '$lib/server/db/schema';
-import { submitQuote } from '$lib/server/quotes';
+import { submitQuote } from '$lib/server/marketplace/quotes';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 
 const ALL = { from: '', to: '', status: '' as const, q: '' };

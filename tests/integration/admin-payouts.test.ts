@@ -7,8 +7,8 @@ import {
 	listPayoutsForAdmin,
 	PAYOUT_CSV_COLUMNS,
 	summarisePayouts
-} from '$lib/server/admin-payouts';
-import { confirmWork, openConfirmationWindow } from '$lib/server/completion';
+} from '$lib/server/money/admin-payouts';
+import { confirmWork, openConfirmationWindow } from '$lib/server/work/completion';
 import { withMail } from '$lib/server/mail/outbox';
 import { formatInZone } from '$lib/time';
 import { paidBookingIn, startPaymentsWorld, type PaymentsWorld } from './payments-helpers';

@@ -1,16 +1,16 @@
 import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
-import { authenticate, resetPassword, signIn } from '$lib/server/accounts';
+import { authenticate, resetPassword, signIn } from '$lib/server/people/accounts';
 import {
 	forcePasswordReset,
 	reinstateAccount,
 	searchUsers,
 	suspendAccount
-} from '$lib/server/admin-users';
+} from '$lib/server/people/admin-users';
 import { db } from '$lib/server/db';
 import { adminAudit, emailOutbox, quote, session, user } from '$lib/server/db/schema';
-import { hashPassword } from '$lib/server/password';
-import { submitQuote } from '$lib/server/quotes';
+import { hashPassword } from '$lib/server/people/password';
+import { submitQuote } from '$lib/server/marketplace/quotes';
 import {
 	ADELAIDE,
 	goodQuote,

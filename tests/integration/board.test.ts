@@ -1,4 +1,4 @@
-// The job board in SQL (issue 9): PostGIS matching equals the pure rule of $lib/matching, the
+// The job board in SQL (issue 9): PostGIS matching equals the pure rule of $lib/marketplace/matching, the
 // boundary agrees with an independent geodesic library, keyset paging neither repeats nor skips,
 // clusters add up to the total, quote counts follow the quotes, and no answer to an installer
 // carries a job's true point. Small generated markets, so the file stays fast; the large market
@@ -10,11 +10,11 @@ import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { job, quote } from '$lib/server/db/schema';
 import { EARTH_RADIUS_KM, snapToGrid, type LatLng } from '$lib/geo';
-import { approximateLocation, matchProblem, requiredSkills } from '$lib/matching';
-import { postedJobColumns } from '$lib/posted-job';
-import { BOARD_SORTS, MAX_CLUSTER_CELLS_ACROSS, type BoardJob } from '$lib/board';
+import { approximateLocation, matchProblem, requiredSkills } from '$lib/marketplace/matching';
+import { postedJobColumns } from '$lib/marketplace/posted-job';
+import { BOARD_SORTS, MAX_CLUSTER_CELLS_ACROSS, type BoardJob } from '$lib/marketplace/board';
 import { BODY_STYLES, CAMERA_SETUPS, POWER_MODES } from '$lib/scope/request';
-import { INSTALLER_SKILLS } from '$lib/vetting';
+import { INSTALLER_SKILLS } from '$lib/people/vetting';
 import {
 	boardQuerySchema,
 	findInstallersForJob,
@@ -25,7 +25,7 @@ import {
 	searchBoard,
 	sendNewJobDigests,
 	type InstallerContext
-} from '$lib/server/matching';
+} from '$lib/server/marketplace/matching';
 import { HATCH_REQUEST, localDay, makeInstaller, makeUser } from './matching-helpers';
 
 /** The one distance model's sphere, in geographiclib: radius EARTH_RADIUS_KM, flattening 0. */

@@ -1,12 +1,12 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { getBookingTimeline } from '$lib/server/admin-bookings';
+import { getBookingTimeline } from '$lib/server/marketplace/admin-bookings';
 import { db } from '$lib/server/db';
 import { fitReport, jobMessage } from '$lib/server/db/schema';
-import { confirmWork, openConfirmationWindow } from '$lib/server/completion';
+import { confirmWork, openConfirmationWindow } from '$lib/server/work/completion';
 import { withMail } from '$lib/server/mail/outbox';
-import { releaseHeldFunds } from '$lib/server/payments';
-import { postJobMessage } from '$lib/server/threads';
+import { releaseHeldFunds } from '$lib/server/money/payments';
+import { postJobMessage } from '$lib/server/marketplace/threads';
 import {
 	bookAndOpenCheckout,
 	onboardInstaller,

@@ -8,9 +8,9 @@ import {
 	getLiveBookingForJob,
 	HOLD_MINUTES,
 	lapseExpiredHolds
-} from '$lib/server/bookings';
-import { startHeldFundsPayment } from '$lib/server/payments';
-import { listQuotesForOwner, submitQuote } from '$lib/server/quotes';
+} from '$lib/server/marketplace/bookings';
+import { startHeldFundsPayment } from '$lib/server/money/payments';
+import { listQuotesForOwner, submitQuote } from '$lib/server/marketplace/quotes';
 import {
 	ADELAIDE,
 	goodQuote,

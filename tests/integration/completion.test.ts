@@ -2,14 +2,18 @@
 // window closes, and the held funds are released once. Rules: the lifecycle issue (Tapline's own).
 import { and, eq } from 'drizzle-orm';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { confirmOverdueWork, confirmWork, openConfirmationWindow } from '$lib/server/completion';
+import {
+	confirmOverdueWork,
+	confirmWork,
+	openConfirmationWindow
+} from '$lib/server/work/completion';
 import { db } from '$lib/server/db';
 import { booking, emailOutbox, ledgerTransaction, payment } from '$lib/server/db/schema';
-import { findLedgerProblems } from '$lib/server/ledger';
+import { findLedgerProblems } from '$lib/server/money/ledger';
 import { withMail } from '$lib/server/mail/outbox';
-import { cancelPaidBooking, retryPendingReleases } from '$lib/server/payments';
-import { defaultMarketSettings, updateMarketSettings } from '$lib/server/settings';
-import { stripe, transferGroupOf } from '$lib/server/stripe';
+import { cancelPaidBooking, retryPendingReleases } from '$lib/server/money/payments';
+import { defaultMarketSettings, updateMarketSettings } from '$lib/server/money/settings';
+import { stripe, transferGroupOf } from '$lib/server/money/stripe';
 import { makeUser } from './matching-helpers';
 import { paidBookingIn, startPaymentsWorld, type PaymentsWorld } from './payments-helpers';
 

@@ -4,12 +4,12 @@ import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { quote, user } from '$lib/server/db/schema';
-import { bookQuote } from '$lib/server/bookings';
-import { EMAIL_NOT_CONFIRMED } from '$lib/server/confirmed-email';
-import { createDraftJob, postJob } from '$lib/server/jobs';
-import { submitApplication } from '$lib/server/installers';
-import { submitQuote } from '$lib/server/quotes';
-import { postJobMessage } from '$lib/server/threads';
+import { bookQuote } from '$lib/server/marketplace/bookings';
+import { EMAIL_NOT_CONFIRMED } from '$lib/server/people/confirmed-email';
+import { createDraftJob, postJob } from '$lib/server/marketplace/jobs';
+import { submitApplication } from '$lib/server/people/installers';
+import { submitQuote } from '$lib/server/marketplace/quotes';
+import { postJobMessage } from '$lib/server/marketplace/threads';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 import { makeCompleteDraft } from './vetting-helpers';
 

@@ -4,7 +4,7 @@
 // fee maths: the payments issue (10 % with a $15.00 minimum, GST 1/11 per the ATO).
 import { and, eq } from 'drizzle-orm';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { confirmOverdueWork, openConfirmationWindow } from '$lib/server/completion';
+import { confirmOverdueWork, openConfirmationWindow } from '$lib/server/work/completion';
 import { db } from '$lib/server/db';
 import {
 	adminAudit,
@@ -25,11 +25,11 @@ import {
 	listDisputes,
 	openDispute,
 	settleDispute
-} from '$lib/server/disputes';
-import { findLedgerProblems, heldCents } from '$lib/server/ledger';
+} from '$lib/server/work/disputes';
+import { findLedgerProblems, heldCents } from '$lib/server/money/ledger';
 import { withMail } from '$lib/server/mail/outbox';
 import { getAdminQueueCounts } from '$lib/server/metrics';
-import { stripe, transferGroupOf } from '$lib/server/stripe';
+import { stripe, transferGroupOf } from '$lib/server/money/stripe';
 import { makeUser } from './matching-helpers';
 import { paidBookingIn, startPaymentsWorld, type PaymentsWorld } from './payments-helpers';
 

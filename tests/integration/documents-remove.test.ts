@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { installerDocument } from '$lib/server/db/schema';
-import { removeInstallerDocument } from '$lib/server/documents';
+import { removeInstallerDocument } from '$lib/server/people/documents';
 import { addDocument, makeApplicant, makeCompleteDraft } from './vetting-helpers';
 
 const rowExists = async (id: string) =>

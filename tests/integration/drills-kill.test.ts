@@ -9,10 +9,10 @@ import { and, eq } from 'drizzle-orm';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { ledgerTransaction, payment } from '$lib/server/db/schema';
-import { findLedgerProblems, heldCents } from '$lib/server/ledger';
-import { refundHeldFunds, retryPendingReleases } from '$lib/server/payments';
-import { reconcileWithProvider } from '$lib/server/receipts';
-import { stripe, transferGroupOf } from '$lib/server/stripe';
+import { findLedgerProblems, heldCents } from '$lib/server/money/ledger';
+import { refundHeldFunds, retryPendingReleases } from '$lib/server/money/payments';
+import { reconcileWithProvider } from '$lib/server/money/receipts';
+import { stripe, transferGroupOf } from '$lib/server/money/stripe';
 import { paidBookingIn, startPaymentsWorld, type PaymentsWorld } from './payments-helpers';
 
 let world: PaymentsWorld;

@@ -7,17 +7,17 @@ import { eq } from 'drizzle-orm';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { booking, ledgerTransaction, payment } from '$lib/server/db/schema';
-import { findLedgerProblems, heldCents } from '$lib/server/ledger';
+import { findLedgerProblems, heldCents } from '$lib/server/money/ledger';
 import {
 	cancelPaidBooking,
 	refundHeldFunds,
 	releaseHeldFunds,
 	retryPendingReleases,
 	startHeldFundsPayment
-} from '$lib/server/payments';
-import { reconcileWithProvider } from '$lib/server/receipts';
-import { stripe, transferGroupOf } from '$lib/server/stripe';
-import { bookQuote } from '$lib/server/bookings';
+} from '$lib/server/money/payments';
+import { reconcileWithProvider } from '$lib/server/money/receipts';
+import { stripe, transferGroupOf } from '$lib/server/money/stripe';
+import { bookQuote } from '$lib/server/marketplace/bookings';
 import {
 	jobWithQuotes,
 	onboardInstaller,

@@ -5,9 +5,13 @@ import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { installerProfile, vettingEvent } from '$lib/server/db/schema';
-import { saveServiceArea, SERVICE_AREA_MOVES_PER_DAY } from '$lib/server/installers';
+import { saveServiceArea, SERVICE_AREA_MOVES_PER_DAY } from '$lib/server/people/installers';
 import { distanceKm, snapToGrid, type LatLng } from '$lib/geo';
-import { getInstallerContext, getJobForInstaller, listOfferedJobs } from '$lib/server/matching';
+import {
+	getInstallerContext,
+	getJobForInstaller,
+	listOfferedJobs
+} from '$lib/server/marketplace/matching';
 import { makeInstaller, makeOpenJob } from './matching-helpers';
 
 // A cell in an empty stretch of the gulf, so no other test's jobs are near.

@@ -4,7 +4,7 @@ import { db } from '$lib/server/db';
 import { booking, fitReport, job, quote } from '$lib/server/db/schema';
 import type { FitNoteInput } from '$lib/forms/fit-note';
 import type { JobRequestInput } from '$lib/scope';
-import { postedJobColumns } from '$lib/posted-job';
+import { postedJobColumns } from '$lib/marketplace/posted-job';
 import { HATCH_REQUEST, makeOpenJob } from './matching-helpers';
 import { eq } from 'drizzle-orm';
 

@@ -1,16 +1,16 @@
 // Fit notes and calibration against PostgreSQL: publishing after a report, search with typos and
 // year ranges (pg_trgm), who may read notes (vetted installers in good standing only), marks once
 // per installer, nothing of the owner stored, and the fit times calibration reads.
-// Rules: the fit notes issue (Tapline's own); thresholds are explained in $lib/fit-notes.
+// Rules: the fit notes issue (Tapline's own); thresholds are explained in $lib/fit-notes/fit-notes.
 import { eq, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openConfirmationWindow } from '$lib/server/completion';
+import { openConfirmationWindow } from '$lib/server/work/completion';
 import { db } from '$lib/server/db';
 import { fitNote, installerProfile, user } from '$lib/server/db/schema';
 import { fitNoteSchema } from '$lib/forms/fit-note';
-import { FIT_NOTES_PAGE_SIZE } from '$lib/fit-notes';
+import { FIT_NOTES_PAGE_SIZE } from '$lib/fit-notes/fit-notes';
 import { computeScope } from '$lib/scope';
-import { countFitsOfBodyStyle, similarFitMinutes } from '$lib/server/calibration';
+import { countFitsOfBodyStyle, similarFitMinutes } from '$lib/server/marketplace/calibration';
 import {
 	addFitNotePhoto,
 	findViewableFitNotePhoto,
@@ -21,7 +21,7 @@ import {
 	notesForVehicle,
 	publishFitNote,
 	searchFitNotes
-} from '$lib/server/fit-notes';
+} from '$lib/server/fit-notes/fit-notes';
 import { withMail } from '$lib/server/mail/outbox';
 import { carRequest, fileReport, noteInput, reportedFit } from './fit-notes-helpers';
 import { makeInstaller, makeUser } from './matching-helpers';
@@ -324,7 +324,7 @@ describe('calibration data', () => {
 		expect(await countFitsOfBodyStyle('people-mover')).toBe(6);
 
 		// The scope sheet posted now would be calibrated by those five fits: median 160 against the
-		// default middle (worked in $lib/calibration.spec.ts for the rule itself).
+		// default middle (worked in $lib/marketplace/calibration.spec.ts for the rule itself).
 		const scope = computeScope(request, undefined, minutes);
 		expect(scope.labour.calibration).toMatchObject({ fits: 5, medianMinutes: 160 });
 	});

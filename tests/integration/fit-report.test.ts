@@ -14,8 +14,8 @@ import {
 	findViewableFitReportPhoto,
 	getInstallRecord,
 	getReportableBooking
-} from '$lib/server/fit-reports';
-import { installRecordPdf } from '$lib/server/install-record-pdf';
+} from '$lib/server/work/fit-reports';
+import { installRecordPdf } from '$lib/server/work/install-record-pdf';
 import { makeUser } from './matching-helpers';
 import {
 	bookAndOpenCheckout,

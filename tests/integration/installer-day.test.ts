@@ -2,17 +2,21 @@ import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { emailOutbox, installerBlockedDate, jobMessage, quote } from '$lib/server/db/schema';
-import { bookQuote, confirmBooking, HOLD_MINUTES } from '$lib/server/bookings';
-import { blockDate } from '$lib/server/diary';
+import { bookQuote, confirmBooking, HOLD_MINUTES } from '$lib/server/marketplace/bookings';
+import { blockDate } from '$lib/server/work/diary';
 import {
 	getInstallerDay,
 	listNewJobsForDay,
 	listQuotesAwaitingAnswer,
 	listRecentThreads,
 	listUpcomingFits
-} from '$lib/server/installer-day';
-import { submitQuote } from '$lib/server/quotes';
-import { getOwnerThread, OWNER_MAY_NOT_MESSAGE, postJobMessage } from '$lib/server/threads';
+} from '$lib/server/work/installer-day';
+import { submitQuote } from '$lib/server/marketplace/quotes';
+import {
+	getOwnerThread,
+	OWNER_MAY_NOT_MESSAGE,
+	postJobMessage
+} from '$lib/server/marketplace/threads';
 import type { LatLng } from '$lib/geo';
 import {
 	ADELAIDE,

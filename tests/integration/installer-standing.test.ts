@@ -4,10 +4,10 @@ import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { booking, emailOutbox, installerProfile, quote, user } from '$lib/server/db/schema';
-import { bookQuote } from '$lib/server/bookings';
-import { listQuotesForOwner, submitQuote } from '$lib/server/quotes';
-import { decideApplication } from '$lib/server/vetting';
-import { postJobMessage } from '$lib/server/threads';
+import { bookQuote } from '$lib/server/marketplace/bookings';
+import { listQuotesForOwner, submitQuote } from '$lib/server/marketplace/quotes';
+import { decideApplication } from '$lib/server/people/vetting';
+import { postJobMessage } from '$lib/server/marketplace/threads';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 import { makeAccount } from './vetting-helpers';
 

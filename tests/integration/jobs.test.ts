@@ -1,4 +1,4 @@
-import { UNTITLED_JOB } from '$lib/posted-job';
+import { UNTITLED_JOB } from '$lib/marketplace/posted-job';
 import { eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
@@ -11,7 +11,7 @@ import {
 	saveJobStep,
 	setJobPhoto,
 	withdrawJob
-} from '$lib/server/jobs';
+} from '$lib/server/marketplace/jobs';
 
 const NORWOOD = { lat: -34.9213, lng: 138.6301 };
 

@@ -2,12 +2,12 @@
 // straight into the tables (their own forms are tested elsewhere), and slots in working hours.
 import { db } from '$lib/server/db';
 import { installerHours, installerProfile, job, user } from '$lib/server/db/schema';
-import type { QuoteInput } from '$lib/server/quotes';
+import type { QuoteInput } from '$lib/server/marketplace/quotes';
 import type { LatLng } from '$lib/geo';
 import { type JobRequestInput } from '$lib/scope';
 import { formatInZone, localToUtc } from '$lib/time';
 import { SAMPLE_REQUEST } from '../../seed/sample-request';
-import { postedJobColumns } from '$lib/posted-job';
+import { postedJobColumns } from '$lib/marketplace/posted-job';
 
 export const ZONE = 'Australia/Adelaide';
 export const ADELAIDE: LatLng = { lat: -34.9285, lng: 138.6007 };

@@ -2,7 +2,11 @@ import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { job, user } from '$lib/server/db/schema';
-import { findInstallersForJob, getInstallerContext, listOfferedJobs } from '$lib/server/matching';
+import {
+	findInstallersForJob,
+	getInstallerContext,
+	listOfferedJobs
+} from '$lib/server/marketplace/matching';
 import { seedDemo } from '../../seed';
 import { DEMO_JOBS } from '../../seed/jobs';
 import { startDemoWorld } from './demo-world';

@@ -11,7 +11,7 @@ import {
 	listOfferedJobs,
 	searchBoard,
 	sendNewJobDigests
-} from '$lib/server/matching';
+} from '$lib/server/marketplace/matching';
 import { makeInstaller, makeOpenJob } from './matching-helpers';
 
 /**

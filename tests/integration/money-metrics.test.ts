@@ -3,8 +3,8 @@
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { ledgerEntry, ledgerTransaction } from '$lib/server/db/schema';
-import { getMoneyMetrics } from '$lib/server/money-metrics';
-import type { LedgerAccount, LedgerKind } from '$lib/server/ledger';
+import { getMoneyMetrics } from '$lib/server/money/money-metrics';
+import type { LedgerAccount, LedgerKind } from '$lib/server/money/ledger';
 
 // Wednesday 25 Nov 2026, 12:30 pm in Adelaide (ACDT, UTC+10:30; IANA tz rule AS). Two whole weeks
 // open on Monday 16 Nov at midnight Adelaide time, 2026-11-15T13:30Z.

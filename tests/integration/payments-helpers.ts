@@ -4,12 +4,12 @@ import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { eq } from 'drizzle-orm';
 import { startStripeFake, type StripeFake, type WebhookDelivery } from '../../local-fakes/stripe';
-import { bookQuote } from '$lib/server/bookings';
+import { bookQuote } from '$lib/server/marketplace/bookings';
 import { db } from '$lib/server/db';
 import { booking, payment, quote } from '$lib/server/db/schema';
-import { receivePaymentWebhook, startHeldFundsPayment } from '$lib/server/payments';
-import { startPayoutOnboarding } from '$lib/server/payouts';
-import { submitQuote } from '$lib/server/quotes';
+import { receivePaymentWebhook, startHeldFundsPayment } from '$lib/server/money/payments';
+import { startPayoutOnboarding } from '$lib/server/money/payouts';
+import { submitQuote } from '$lib/server/marketplace/quotes';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 
 export const WEBHOOK_SECRET = 'whsec_integration_test_secret';

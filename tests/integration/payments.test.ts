@@ -1,7 +1,7 @@
 import { and, eq, sql } from 'drizzle-orm';
 import Stripe from 'stripe';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { lapseExpiredHolds, bookQuote } from '$lib/server/bookings';
+import { lapseExpiredHolds, bookQuote } from '$lib/server/marketplace/bookings';
 import { db } from '$lib/server/db';
 import {
 	booking,
@@ -14,17 +14,17 @@ import {
 	payment,
 	quote
 } from '$lib/server/db/schema';
-import { findLedgerProblems, heldCents, reverseLedgerTransaction } from '$lib/server/ledger';
+import { findLedgerProblems, heldCents, reverseLedgerTransaction } from '$lib/server/money/ledger';
 import {
 	cancelPaidBooking,
 	receivePaymentWebhook,
 	refundHeldFunds,
 	releaseHeldFunds,
 	retryPendingReleases
-} from '$lib/server/payments';
-import { reconcileWithProvider } from '$lib/server/receipts';
-import { stripe, transferGroupOf } from '$lib/server/stripe';
-import { submitQuote } from '$lib/server/quotes';
+} from '$lib/server/money/payments';
+import { reconcileWithProvider } from '$lib/server/money/receipts';
+import { stripe, transferGroupOf } from '$lib/server/money/stripe';
+import { submitQuote } from '$lib/server/marketplace/quotes';
 import { PAYOUTS_NEEDED_TEXT } from '$lib/labels';
 import {
 	ADELAIDE,
@@ -38,7 +38,7 @@ import {
 	defaultMarketSettings,
 	getMarketSettings,
 	updateMarketSettings
-} from '$lib/server/settings';
+} from '$lib/server/money/settings';
 import { adminAudit } from '$lib/server/db/schema';
 import {
 	bookAndOpenCheckout,

@@ -3,9 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { booking, emailOutbox, job, jobMessage, quote, quoteRevision } from '$lib/server/db/schema';
 import { MASK_PLACEHOLDER } from '$lib/masking';
-import { bookQuote, confirmBooking } from '$lib/server/bookings';
-import { listJobMessages, postJobMessage } from '$lib/server/threads';
-import { sendOwnerQuoteDigest, submitQuote } from '$lib/server/quotes';
+import { bookQuote, confirmBooking } from '$lib/server/marketplace/bookings';
+import { listJobMessages, postJobMessage } from '$lib/server/marketplace/threads';
+import { sendOwnerQuoteDigest, submitQuote } from '$lib/server/marketplace/quotes';
 import {
 	ADELAIDE,
 	goodQuote,

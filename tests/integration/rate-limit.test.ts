@@ -3,7 +3,12 @@
 // address out of the account, not its holder; the reset link clears the account-wide lock.
 import { and, eq } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
-import { createAccount, requestPasswordReset, resetPassword, signIn } from '$lib/server/accounts';
+import {
+	createAccount,
+	requestPasswordReset,
+	resetPassword,
+	signIn
+} from '$lib/server/people/accounts';
 import { db } from '$lib/server/db';
 import { emailOutbox, jobMessage, quote } from '$lib/server/db/schema';
 import {
@@ -14,8 +19,8 @@ import {
 	QUOTE_SUBMISSIONS,
 	SIGN_UP_NOTICES
 } from '$lib/server/rate-limit';
-import { submitQuote } from '$lib/server/quotes';
-import { postJobMessage } from '$lib/server/threads';
+import { submitQuote } from '$lib/server/marketplace/quotes';
+import { postJobMessage } from '$lib/server/marketplace/threads';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 
 const password = 'correct horse battery';

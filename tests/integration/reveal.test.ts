@@ -6,10 +6,10 @@ import { describe, expect, it } from 'vitest';
 import { MASK_PLACEHOLDER } from '$lib/masking';
 import { db } from '$lib/server/db';
 import { booking, quote, user } from '$lib/server/db/schema';
-import { bookQuote, confirmBooking } from '$lib/server/bookings';
-import { getInstallerContext, getJobForInstaller } from '$lib/server/matching';
-import { submitQuote } from '$lib/server/quotes';
-import { listJobMessages, postJobMessage } from '$lib/server/threads';
+import { bookQuote, confirmBooking } from '$lib/server/marketplace/bookings';
+import { getInstallerContext, getJobForInstaller } from '$lib/server/marketplace/matching';
+import { submitQuote } from '$lib/server/marketplace/quotes';
+import { listJobMessages, postJobMessage } from '$lib/server/marketplace/threads';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 
 describe('what a booking reveals to the installer', () => {

@@ -3,18 +3,18 @@
 // public reply by the installer; only reviews that show feed the ratings.
 import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { confirmWork, openConfirmationWindow } from '$lib/server/completion';
+import { confirmWork, openConfirmationWindow } from '$lib/server/work/completion';
 import { db } from '$lib/server/db';
 import { emailOutbox, review, user } from '$lib/server/db/schema';
 import { withMail } from '$lib/server/mail/outbox';
-import { listQuotesForOwner } from '$lib/server/quotes';
+import { listQuotesForOwner } from '$lib/server/marketplace/quotes';
 import {
 	getReviewPanel,
 	installerRatings,
 	listInstallerReviews,
 	replyToReview,
 	submitReview
-} from '$lib/server/reviews';
+} from '$lib/server/work/reviews';
 import { makeUser } from './matching-helpers';
 import { paidBookingIn, startPaymentsWorld, type PaymentsWorld } from './payments-helpers';
 

@@ -6,9 +6,9 @@
 import { and, eq } from 'drizzle-orm';
 import ICAL from 'ical.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { bookQuote } from '$lib/server/bookings';
-import { getBookingCalendarFile, getInstallerWeek } from '$lib/server/booking-calendar';
-import { openConfirmationWindow } from '$lib/server/completion';
+import { bookQuote } from '$lib/server/marketplace/bookings';
+import { getBookingCalendarFile, getInstallerWeek } from '$lib/server/work/booking-calendar';
+import { openConfirmationWindow } from '$lib/server/work/completion';
 import { db } from '$lib/server/db';
 import {
 	booking,
@@ -18,15 +18,15 @@ import {
 	user
 } from '$lib/server/db/schema';
 import { withMail } from '$lib/server/mail/outbox';
-import { cancelPaidBooking } from '$lib/server/payments';
-import { sendDueReminders } from '$lib/server/reminders';
+import { cancelPaidBooking } from '$lib/server/money/payments';
+import { sendDueReminders } from '$lib/server/work/reminders';
 import {
 	answerProposal,
 	proposeNewTime,
 	withdrawProposal,
 	type Party
-} from '$lib/server/rescheduling';
-import { submitQuote } from '$lib/server/quotes';
+} from '$lib/server/work/rescheduling';
+import { submitQuote } from '$lib/server/marketplace/quotes';
 import {
 	ADELAIDE,
 	goodQuote,

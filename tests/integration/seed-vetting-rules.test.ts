@@ -4,7 +4,7 @@ import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { getObject } from '$lib/server/files/storage';
-import { getMarketSettings } from '$lib/server/settings';
+import { getMarketSettings } from '$lib/server/money/settings';
 import { installerDocument, installerHours, installerProfile } from '$lib/server/db/schema';
 import {
 	approvalProblems,
@@ -12,7 +12,7 @@ import {
 	missingParts,
 	type Checklist,
 	type DocumentKind
-} from '$lib/vetting';
+} from '$lib/people/vetting';
 import { seedDemo } from '../../seed';
 import { DEMO_CONNECTED_ACCOUNTS } from '../../local-fakes/data/stripe-demo-accounts';
 import { startDemoWorld } from './demo-world';

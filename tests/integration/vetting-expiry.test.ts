@@ -7,10 +7,10 @@ import {
 	insuranceReminder,
 	vettingEvent
 } from '$lib/server/db/schema';
-import { decideApplication, runInsuranceExpiryCheck } from '$lib/server/vetting';
-import { saveInsuranceDetails } from '$lib/server/installers';
+import { decideApplication, runInsuranceExpiryCheck } from '$lib/server/people/vetting';
+import { saveInsuranceDetails } from '$lib/server/people/installers';
 import { localToUtc } from '$lib/time';
-import { canQuote, localDate } from '$lib/vetting';
+import { canQuote, localDate } from '$lib/people/vetting';
 import { ALL_TICKED, makeAccount, makeApplicant } from './vetting-helpers';
 
 const ZONE = 'Australia/Adelaide';

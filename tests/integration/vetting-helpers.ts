@@ -2,10 +2,14 @@
 // through the same server functions the pages use.
 import { db } from '$lib/server/db';
 import { user, type Role } from '$lib/server/db/schema';
-import { addInstallerDocument } from '$lib/server/documents';
-import { saveApplication, saveInsuranceDetails, submitApplication } from '$lib/server/installers';
-import { saveWeeklyHours } from '$lib/server/diary';
-import type { DocumentKind } from '$lib/vetting';
+import { addInstallerDocument } from '$lib/server/people/documents';
+import {
+	saveApplication,
+	saveInsuranceDetails,
+	submitApplication
+} from '$lib/server/people/installers';
+import { saveWeeklyHours } from '$lib/server/work/diary';
+import type { DocumentKind } from '$lib/people/vetting';
 
 let n = 0;
 

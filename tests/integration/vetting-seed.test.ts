@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { installerHours, installerProfile, user, vettingEvent } from '$lib/server/db/schema';
-import { canQuote, localDate } from '$lib/vetting';
+import { canQuote, localDate } from '$lib/people/vetting';
 import { seedDemo } from '../../seed';
 import { startDemoWorld } from './demo-world';
 
@@ -13,7 +13,7 @@ beforeAll(async () => {
 afterAll(() => stop());
 
 /**
- * The ABN check written out again, independently of $lib/abn (Australian Business Register,
+ * The ABN check written out again, independently of $lib/people/abn (Australian Business Register,
  * "ABN format": subtract 1 from the first digit, weight by 10, 1, 3, 5 … 19, sum divisible by 89).
  */
 function passesAbnCheck(abn: string) {

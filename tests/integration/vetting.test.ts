@@ -2,9 +2,17 @@ import { and, eq, sql } from 'drizzle-orm';
 import { describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { emailOutbox, installerProfile, vettingEvent } from '$lib/server/db/schema';
-import { decideApplication, listVettingQueue, type DecisionInput } from '$lib/server/vetting';
-import { findViewableDocument } from '$lib/server/documents';
-import { getPublicProfile, saveApplication, submitApplication } from '$lib/server/installers';
+import {
+	decideApplication,
+	listVettingQueue,
+	type DecisionInput
+} from '$lib/server/people/vetting';
+import { findViewableDocument } from '$lib/server/people/documents';
+import {
+	getPublicProfile,
+	saveApplication,
+	submitApplication
+} from '$lib/server/people/installers';
 import {
 	addDocument,
 	ALL_TICKED,

@@ -3,9 +3,9 @@
  * an account carries, with an explicit confirmation.
  */
 import { z } from 'zod';
-import type { Booking } from '$lib/server/db/schema';
+import type { BookingStatus } from '$lib/statuses';
 import { isCalendarDate, textField } from './fields';
-import { MAX_CONFIRMATION_WINDOW_HOURS, MIN_CONFIRMATION_WINDOW_HOURS } from '$lib/lifecycle';
+import { MAX_CONFIRMATION_WINDOW_HOURS, MIN_CONFIRMATION_WINDOW_HOURS } from '$lib/work/lifecycle';
 
 export const USER_ROLES = ['owner', 'installer', 'admin'] as const;
 export const ACCOUNT_STANDINGS = ['active', 'suspended'] as const;
@@ -36,7 +36,7 @@ export const BOOKING_STATUSES = [
 	'confirmed',
 	'cancelled',
 	'lapsed'
-] as const satisfies readonly Booking['status'][];
+] as const satisfies readonly BookingStatus[];
 
 /** A calendar date in a query string, or '' when absent or not a real date. */
 const queryDate = z.string().refine(isCalendarDate).catch('').or(z.literal(''));

@@ -3,7 +3,7 @@
  * admin's note and settlement. Photos come through the upload pipeline, not these schemas.
  */
 import { z } from 'zod';
-import { DISPUTE_REASONS, SETTLEMENT_OUTCOMES } from '$lib/disputes';
+import { DISPUTE_REASONS, SETTLEMENT_OUTCOMES } from '$lib/work/disputes';
 import { isCalendarDate, textField } from './fields';
 
 /** At most this many photos with one entry (Tapline's choice: enough to show a fault). */

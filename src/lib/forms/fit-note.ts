@@ -1,11 +1,11 @@
 /**
  * A fit note as the installer writes it after a fit, and a mark another installer puts on it.
- * Free text refuses contact details, addresses and plates ($lib/fit-notes privateDetailProblem),
+ * Free text refuses contact details, addresses and plates ($lib/fit-notes/fit-notes privateDetailProblem),
  * so nothing about the owner is stored.
  */
 import { z } from 'zod';
 import { BODY_STYLES } from '$lib/scope/request';
-import { FIRST_MODEL_YEAR, LAST_MODEL_YEAR, privateDetailProblem } from '$lib/fit-notes';
+import { FIRST_MODEL_YEAR, LAST_MODEL_YEAR, privateDetailProblem } from '$lib/fit-notes/fit-notes';
 import { textField } from './fields';
 
 /** Fuse families a note may name (the ones $lib/scope/fuses knows). */

@@ -1,4 +1,4 @@
-/** The form for proposing a new time for a paid booking (checked further by $lib/reschedule). */
+/** The form for proposing a new time for a paid booking (checked further by $lib/work/reschedule). */
 import { z } from 'zod';
 import { isCalendarDate, textField } from './fields';
 

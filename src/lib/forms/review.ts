@@ -9,7 +9,7 @@ import {
 	REVIEW_STARS_MIN,
 	REVIEW_TEXT_MAX,
 	REVIEW_TEXT_MIN
-} from '../reviews';
+} from '../work/reviews';
 import { textField } from './fields';
 
 const stars = z

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { textField } from './fields';
-import { abnSchema } from '$lib/abn';
-import { ADMIN_DECISIONS, INSTALLER_SKILLS, VETTING_STATUSES } from '$lib/vetting';
+import { abnSchema } from '$lib/people/abn';
+import { ADMIN_DECISIONS, INSTALLER_SKILLS, VETTING_STATUSES } from '$lib/people/vetting';
 
 /**
  * Australian phone numbers: 10 digits starting 02, 03, 04, 07 or 08, or +61 and the same number

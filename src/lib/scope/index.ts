@@ -2,7 +2,7 @@
  * The job scope sheet: labour, parts, parking-mode budget, price guide and cautions, computed
  * from the owner's answers. Pure: no I/O, safe in the browser and in tests.
  */
-import { calibrateLabour } from '../calibration';
+import { calibrateLabour } from '../marketplace/calibration';
 import { cautionsFor, type Caution } from './cautions';
 import { estimateLabour, type LabourEstimate } from './labour';
 import { parkingScope, type ParkingScope } from './parking';
@@ -35,7 +35,7 @@ export interface ScopeSheet {
  * @param input a request that passed `jobRequestSchema`
  * @param market rates and prices; the Adelaide demo market by default
  * @param fitMinutes minutes reported on similar fits (same body style, cameras, power); with
- *   enough of them the labour total (and so the price guide) is calibrated ($lib/calibration)
+ *   enough of them the labour total (and so the price guide) is calibrated ($lib/marketplace/calibration)
  */
 export function computeScope(
 	input: JobRequestInput,

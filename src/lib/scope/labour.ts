@@ -6,7 +6,7 @@
  * +30–60, removing an old unit +30–60. Parking mode adds a test with the car asleep (20–60 min,
  * our estimate; see the line). Real fits should calibrate these.
  */
-import type { LabourCalibration } from '../calibration';
+import type { LabourCalibration } from '../marketplace/calibration';
 import type { BodyStyle, CameraSetup, PowerMode } from './request';
 
 export type LabourCode =
@@ -36,7 +36,7 @@ export interface LabourEstimate {
 	minMinutes: number;
 	maxMinutes: number;
 	/**
-	 * Set when the total was calibrated by reported fits of similar jobs ($lib/calibration): the
+	 * Set when the total was calibrated by reported fits of similar jobs ($lib/marketplace/calibration): the
 	 * lines keep the trade's ranges, the total is moved. Absent on older sheets and thin data.
 	 */
 	calibration?: LabourCalibration;

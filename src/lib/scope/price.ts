@@ -10,7 +10,7 @@
  * 4. The GST shown is the GST contained in the inclusive total: round(total / 11) at 10 %
  *    (Australian Taxation Office guidance).
  */
-import { addGst, assertCents, gstFromInclusive, scaleCents } from '../money';
+import { addGst, assertCents, gstFromInclusive, scaleCents } from '../money/money';
 import type { LabourEstimate } from './labour';
 import type { Part, PartCode } from './parts';
 

@@ -19,14 +19,14 @@
 import PgBoss from 'pg-boss';
 import { env } from '$env/dynamic/private';
 import { QUEUES, QUOTE_DIGEST_SECONDS, setBoss } from './boss';
-import { retryPendingReleases } from './payments';
-import { lapseExpiredHolds } from './bookings';
-import { confirmOverdueWork } from './completion';
-import { sendDueReminders } from './reminders';
+import { retryPendingReleases } from './money/payments';
+import { lapseExpiredHolds } from './marketplace/bookings';
+import { confirmOverdueWork } from './work/completion';
+import { sendDueReminders } from './work/reminders';
 import { deliverEmail, listStrandedEmails } from './mail/outbox';
-import { sendNewJobDigests } from './matching';
-import { listJobsWithUnsentQuotes, sendOwnerQuoteDigest } from './quotes';
-import { runInsuranceExpiryCheck } from './vetting';
+import { sendNewJobDigests } from './marketplace/matching';
+import { listJobsWithUnsentQuotes, sendOwnerQuoteDigest } from './marketplace/quotes';
+import { runInsuranceExpiryCheck } from './people/vetting';
 
 const ADELAIDE = { tz: 'Australia/Adelaide' };
 

@@ -6,7 +6,7 @@
  * naming the tsconfig.json beside it (one process, so a SIGKILL reaches the process that calls).
  */
 import { pool } from '$lib/server/db';
-import { refundHeldFunds, releaseHeldFunds } from '$lib/server/payments';
+import { refundHeldFunds, releaseHeldFunds } from '$lib/server/money/payments';
 
 const [what, bookingId, cents] = process.argv.slice(2);
 if (!bookingId || (what !== 'release' && what !== 'refund')) {

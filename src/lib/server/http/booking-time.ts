@@ -8,7 +8,7 @@ import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { proposeTimeSchema } from '$lib/forms/reschedule';
 import { PROPOSAL_STATUS_LABELS } from '$lib/labels';
-import { formatSlotLabel } from '$lib/schedule';
+import { formatSlotLabel } from '$lib/work/schedule';
 import { formatDayTime } from '$lib/time';
 import {
 	answerProposal,
@@ -17,7 +17,7 @@ import {
 	proposeNewTime,
 	withdrawProposal,
 	type Party
-} from '../rescheduling';
+} from '../work/rescheduling';
 import { redirectWithNotice } from './notice';
 import { refusalFail, refusalMessage } from './respond';
 

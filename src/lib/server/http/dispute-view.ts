@@ -3,10 +3,10 @@
  * outcome in words, the money in dollars, the return visit, and the timeline.
  */
 import { DISPUTE_OUTCOME_LABELS, DISPUTE_REASON_LABELS, labelOf } from '$lib/labels';
-import { formatAud } from '$lib/money';
-import { formatSlotLabel } from '$lib/schedule';
+import { formatAud } from '$lib/money/money';
+import { formatSlotLabel } from '$lib/work/schedule';
 import { formatDayTime } from '$lib/time';
-import type { getDisputeForParty } from '../disputes';
+import type { getDisputeForParty } from '../work/disputes';
 
 type Found = NonNullable<Awaited<ReturnType<typeof getDisputeForParty>>>;
 

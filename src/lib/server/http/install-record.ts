@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
-import { NOT_YOUR_BOOKING, getInstallRecord } from '../fit-reports';
+import { NOT_YOUR_BOOKING, getInstallRecord } from '../work/fit-reports';
 import { requireRole } from './guards';
-import { installRecordPdf } from '../install-record-pdf';
+import { installRecordPdf } from '../work/install-record-pdf';
 
 /**
  * The install record of a booking as a PDF download, for its owner or its installer (the route

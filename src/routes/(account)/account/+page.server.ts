@@ -8,7 +8,7 @@ import {
 	endSessionSchema,
 	passwordChangeSchema
 } from '$lib/forms/account';
-import { closeAccount, previewAccountClosing } from '$lib/server/account-closing';
+import { closeAccount, previewAccountClosing } from '$lib/server/people/account-closing';
 import {
 	changeDisplayName,
 	changePassword,
@@ -16,7 +16,7 @@ import {
 	endOtherSession,
 	getAccountSettings,
 	requestEmailChange
-} from '$lib/server/account-settings';
+} from '$lib/server/people/account-settings';
 import { clearSessionCookie } from '$lib/server/auth';
 import { readFormData } from '$lib/server/http/form-data';
 import { requireSession } from '$lib/server/http/guards';

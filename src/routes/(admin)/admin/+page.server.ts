@@ -1,6 +1,6 @@
 import { requireRole } from '$lib/server/http/guards';
 import { getMarketMetrics, getPlatformCounts } from '$lib/server/metrics';
-import { getMoneyMetrics } from '$lib/server/money-metrics';
+import { getMoneyMetrics } from '$lib/server/money/money-metrics';
 import type { PageServerLoad } from './$types';
 
 /** Weeks the overview looks back over, the current one included. */

@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { safeRedirect, signInSchema } from '$lib/forms/auth';
-import { signIn } from '$lib/server/accounts';
+import { signIn } from '$lib/server/people/accounts';
 import { startSession } from '$lib/server/auth';
 import { homeFor } from '$lib/server/http/guards';
 import { refusalMessage } from '$lib/server/http/respond';

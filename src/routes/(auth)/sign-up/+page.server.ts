@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { signUpSchema } from '$lib/forms/auth';
-import { createAccount } from '$lib/server/accounts';
+import { createAccount } from '$lib/server/people/accounts';
 import { homeFor } from '$lib/server/http/guards';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';

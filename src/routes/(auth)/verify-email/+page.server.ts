@@ -1,7 +1,7 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { textField } from '$lib/forms/fields';
-import { resendVerification, verifyEmailToken } from '$lib/server/accounts';
+import { resendVerification, verifyEmailToken } from '$lib/server/people/accounts';
 import { startSession } from '$lib/server/auth';
 import { readFormData } from '$lib/server/http/form-data';
 import type { Actions, PageServerLoad } from './$types';

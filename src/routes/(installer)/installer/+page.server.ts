@@ -1,9 +1,9 @@
 import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
-import { getApplicationStatus, submitApplication } from '$lib/server/installers';
+import { getApplicationStatus, submitApplication } from '$lib/server/people/installers';
 import { listNotices } from '$lib/server/notices';
-import { getInstallerDay } from '$lib/server/installer-day';
+import { getInstallerDay } from '$lib/server/work/installer-day';
 import { formatDay } from '$lib/time';
-import { fitRow, threadRow, waitingQuoteRow } from '$lib/day-rows';
+import { fitRow, threadRow, waitingQuoteRow } from '$lib/work/day-rows';
 import { refusalFail } from '$lib/server/http/respond';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { requireRole } from '$lib/server/http/guards';
-import { JOB_SORTS, listOwnerJobs } from '$lib/server/jobs';
+import { JOB_SORTS, listOwnerJobs } from '$lib/server/marketplace/jobs';
 import { listNotices } from '$lib/server/notices';
 import type { PageServerLoad } from './$types';
 

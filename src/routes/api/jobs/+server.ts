@@ -1,6 +1,10 @@
 import { error, json } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/http/guards';
-import { boardQuerySchema, getInstallerContext, searchBoard } from '$lib/server/matching';
+import {
+	boardQuerySchema,
+	getInstallerContext,
+	searchBoard
+} from '$lib/server/marketplace/matching';
 import type { RequestHandler } from './$types';
 
 /**

@@ -1,6 +1,6 @@
 import { error, json } from '@sveltejs/kit';
 import { textField } from '$lib/forms/fields';
-import { GeocoderUnavailable, searchPlaces } from '$lib/server/geocoding';
+import { GeocoderUnavailable, searchPlaces } from '$lib/server/marketplace/geocoding';
 import { requireRole } from '$lib/server/http/guards';
 import type { RequestHandler } from './$types';
 

@@ -1,6 +1,6 @@
 import { fail } from '@sveltejs/kit';
 import { confirmEmailChangeSchema } from '$lib/forms/account';
-import { confirmEmailChange } from '$lib/server/account-settings';
+import { confirmEmailChange } from '$lib/server/people/account-settings';
 import { readFormData } from '$lib/server/http/form-data';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';

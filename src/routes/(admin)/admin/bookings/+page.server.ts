@@ -3,7 +3,7 @@ import {
 	BOOKINGS_PAGE_SIZE,
 	countBookingsForAdmin,
 	listBookingsForAdmin
-} from '$lib/server/admin-bookings';
+} from '$lib/server/marketplace/admin-bookings';
 import { requireRole } from '$lib/server/http/guards';
 import type { PageServerLoad } from './$types';
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { listDisputes } from '$lib/server/disputes';
+import { listDisputes } from '$lib/server/work/disputes';
 import { requireRole } from '$lib/server/http/guards';
 import type { PageServerLoad } from './$types';
 

@@ -5,8 +5,8 @@ import { requireRole } from '$lib/server/http/guards';
 import { readFormData } from '$lib/server/http/form-data';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalFail } from '$lib/server/http/respond';
-import { refundHeldFunds, releaseHeldFunds } from '$lib/server/payments';
-import { listPaidBookingsForAdmin, reconcileWithProvider } from '$lib/server/receipts';
+import { refundHeldFunds, releaseHeldFunds } from '$lib/server/money/payments';
+import { listPaidBookingsForAdmin, reconcileWithProvider } from '$lib/server/money/receipts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {

@@ -3,7 +3,7 @@ import {
 	listPayoutsForAdmin,
 	PAYOUTS_PAGE_SIZE,
 	summarisePayouts
-} from '$lib/server/admin-payouts';
+} from '$lib/server/money/admin-payouts';
 import { requireRole } from '$lib/server/http/guards';
 import type { PageServerLoad } from './$types';
 

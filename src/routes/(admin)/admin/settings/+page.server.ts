@@ -8,7 +8,7 @@ import {
 	listSettingChanges,
 	updateMarketSettings,
 	type MarketSettings
-} from '$lib/server/settings';
+} from '$lib/server/money/settings';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';
 

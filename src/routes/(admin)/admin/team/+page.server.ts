@@ -2,7 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { adminInviteSchema } from '$lib/forms/auth';
-import { createAdminAccount, listAdmins } from '$lib/server/accounts';
+import { createAdminAccount, listAdmins } from '$lib/server/people/accounts';
 import { requireRole } from '$lib/server/http/guards';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,5 +1,5 @@
 import { requireRole } from '$lib/server/http/guards';
-import { searchUsers, USERS_PAGE_SIZE } from '$lib/server/admin-users';
+import { searchUsers, USERS_PAGE_SIZE } from '$lib/server/people/admin-users';
 import { userQuerySchema } from '$lib/forms/admin';
 import type { PageServerLoad } from './$types';
 

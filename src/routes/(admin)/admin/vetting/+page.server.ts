@@ -1,7 +1,7 @@
 import { requireRole } from '$lib/server/http/guards';
-import { listVettingQueue } from '$lib/server/vetting';
-import { QUEUE_SORTS, type QueueSort } from '$lib/vetting';
-import { VETTING_STATUSES, type VettingStatus } from '$lib/vetting';
+import { listVettingQueue } from '$lib/server/people/vetting';
+import { QUEUE_SORTS, type QueueSort } from '$lib/people/vetting';
+import { VETTING_STATUSES, type VettingStatus } from '$lib/people/vetting';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

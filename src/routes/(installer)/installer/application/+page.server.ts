@@ -2,10 +2,14 @@ import { fail, redirect } from '@sveltejs/kit';
 import { setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { applicationSchema } from '$lib/forms/vetting';
-import { GeocoderUnavailable, searchPlaces } from '$lib/server/geocoding';
+import { GeocoderUnavailable, searchPlaces } from '$lib/server/marketplace/geocoding';
 import { requireRole } from '$lib/server/http/guards';
-import { getInstallerProfile, saveApplication, type BasePlace } from '$lib/server/installers';
-import { INSTALLER_SKILLS, stageOf, type InstallerSkill } from '$lib/vetting';
+import {
+	getInstallerProfile,
+	saveApplication,
+	type BasePlace
+} from '$lib/server/people/installers';
+import { INSTALLER_SKILLS, stageOf, type InstallerSkill } from '$lib/people/vetting';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';

@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
-import { addCalendarDays } from '$lib/calendar-week';
+import { addCalendarDays } from '$lib/work/calendar-week';
 import { formatDay } from '$lib/time';
-import { getInstallerWeek } from '$lib/server/booking-calendar';
+import { getInstallerWeek } from '$lib/server/work/booking-calendar';
 import { requireRole } from '$lib/server/http/guards';
 import type { PageServerLoad } from './$types';
 

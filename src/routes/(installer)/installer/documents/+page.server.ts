@@ -9,10 +9,10 @@ import {
 	addInstallerDocument,
 	listInstallerDocuments,
 	removeInstallerDocument
-} from '$lib/server/documents';
-import { getInstallerProfile, saveInsuranceDetails } from '$lib/server/installers';
+} from '$lib/server/people/documents';
+import { getInstallerProfile, saveInsuranceDetails } from '$lib/server/people/installers';
 import { DOCUMENT_TYPES, IMAGE_TYPES } from '$lib/uploads';
-import { DOCUMENT_KINDS, mayRemoveDocument, stageOf, type DocumentKind } from '$lib/vetting';
+import { DOCUMENT_KINDS, mayRemoveDocument, stageOf, type DocumentKind } from '$lib/people/vetting';
 import { refusalFail, refusalMessage } from '$lib/server/http/respond';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';

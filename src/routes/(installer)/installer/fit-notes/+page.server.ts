@@ -1,9 +1,9 @@
 import { error } from '@sveltejs/kit';
-import { pageNumber } from '$lib/day-rows';
-import { searchYear } from '$lib/fit-notes';
+import { pageNumber } from '$lib/work/day-rows';
+import { searchYear } from '$lib/fit-notes/fit-notes';
 import { BODY_STYLES } from '$lib/scope/request';
 import { requireRole } from '$lib/server/http/guards';
-import { searchFitNotes } from '$lib/server/fit-notes';
+import { searchFitNotes } from '$lib/server/fit-notes/fit-notes';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

@@ -1,6 +1,6 @@
-import { fitRow, pageNumber } from '$lib/day-rows';
+import { fitRow, pageNumber } from '$lib/work/day-rows';
 import { requireRole } from '$lib/server/http/guards';
-import { DAY_PAGE_SIZE, listUpcomingFits } from '$lib/server/installer-day';
+import { DAY_PAGE_SIZE, listUpcomingFits } from '$lib/server/work/installer-day';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

@@ -11,13 +11,13 @@ import {
 	listBlockedDates,
 	saveWeeklyHours,
 	unblockDate
-} from '$lib/server/diary';
-import { getInstallerProfile } from '$lib/server/installers';
-import { listUpcomingFits } from '$lib/server/installer-day';
+} from '$lib/server/work/diary';
+import { getInstallerProfile } from '$lib/server/people/installers';
+import { listUpcomingFits } from '$lib/server/work/installer-day';
 import { refusalMessage } from '$lib/server/http/respond';
-import { fitRow } from '$lib/day-rows';
-import { validateWeeklyHours, type Weekday, type WeeklyHours } from '$lib/schedule';
-import { localDate } from '$lib/vetting';
+import { fitRow } from '$lib/work/day-rows';
+import { validateWeeklyHours, type Weekday, type WeeklyHours } from '$lib/work/schedule';
+import { localDate } from '$lib/people/vetting';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';
 

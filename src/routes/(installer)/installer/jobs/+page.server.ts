@@ -4,7 +4,7 @@ import {
 	getInstallerContext,
 	listNewOfferedJobs,
 	searchBoard
-} from '$lib/server/matching';
+} from '$lib/server/marketplace/matching';
 import type { PageServerLoad } from './$types';
 
 // The board loads in the browser from /api/jobs as the map moves; this first page (from the same

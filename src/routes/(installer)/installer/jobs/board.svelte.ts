@@ -5,7 +5,12 @@
  * never leaves stale rows on screen.
  */
 import type { MapBounds } from '$lib/components/JobMap.svelte';
-import { BOARD_DEFAULT_DIR, type BoardCluster, type BoardJob, type BoardSort } from '$lib/board';
+import {
+	BOARD_DEFAULT_DIR,
+	type BoardCluster,
+	type BoardJob,
+	type BoardSort
+} from '$lib/marketplace/board';
 import { queryString, sortHref } from '$lib/query';
 
 export interface BoardFilters {

@@ -2,8 +2,12 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalFail } from '$lib/server/http/respond';
-import { getPayoutSetup, refreshPayoutStatus, startPayoutOnboarding } from '$lib/server/payouts';
-import { listInstallerPayouts } from '$lib/server/receipts';
+import {
+	getPayoutSetup,
+	refreshPayoutStatus,
+	startPayoutOnboarding
+} from '$lib/server/money/payouts';
+import { listInstallerPayouts } from '$lib/server/money/receipts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {

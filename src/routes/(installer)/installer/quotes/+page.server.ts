@@ -1,7 +1,7 @@
-import { pageNumber, waitingQuoteRow } from '$lib/day-rows';
+import { pageNumber, waitingQuoteRow } from '$lib/work/day-rows';
 import { requireRole } from '$lib/server/http/guards';
-import { getInstallerProfile } from '$lib/server/installers';
-import { DAY_PAGE_SIZE, listQuotesAwaitingAnswer } from '$lib/server/installer-day';
+import { getInstallerProfile } from '$lib/server/people/installers';
+import { DAY_PAGE_SIZE, listQuotesAwaitingAnswer } from '$lib/server/work/installer-day';
 import { DEFAULT_TIME_ZONE } from '$lib/time';
 import type { PageServerLoad } from './$types';
 

@@ -1,5 +1,5 @@
 import { requireRole } from '$lib/server/http/guards';
-import { listOwnerPayments } from '$lib/server/receipts';
+import { listOwnerPayments } from '$lib/server/money/receipts';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {

@@ -1,6 +1,6 @@
 import { error, json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { GeocoderUnavailable, reversePlace } from '$lib/server/geocoding';
+import { GeocoderUnavailable, reversePlace } from '$lib/server/marketplace/geocoding';
 import { requireRole } from '$lib/server/http/guards';
 import type { RequestHandler } from './$types';
 

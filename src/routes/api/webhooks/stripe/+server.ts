@@ -1,5 +1,5 @@
 import { error, json } from '@sveltejs/kit';
-import { receivePaymentWebhook } from '$lib/server/payments';
+import { receivePaymentWebhook } from '$lib/server/money/payments';
 import type { RequestHandler } from './$types';
 
 /**

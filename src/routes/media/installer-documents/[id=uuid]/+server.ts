@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
 import { missingImageResponse, objectResponse } from '$lib/server/files/storage';
-import { findViewableDocument } from '$lib/server/documents';
-import { isProfilePublic } from '$lib/vetting';
+import { findViewableDocument } from '$lib/server/people/documents';
+import { isProfilePublic } from '$lib/people/vetting';
 import type { RequestHandler } from './$types';
 
 /**

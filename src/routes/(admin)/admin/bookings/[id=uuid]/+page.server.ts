@@ -1,5 +1,5 @@
 import { error } from '@sveltejs/kit';
-import { getBookingTimeline } from '$lib/server/admin-bookings';
+import { getBookingTimeline } from '$lib/server/marketplace/admin-bookings';
 import { requireRole } from '$lib/server/http/guards';
 import type { PageServerLoad } from './$types';
 

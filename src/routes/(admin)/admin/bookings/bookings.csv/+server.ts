@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import { bookingQuerySchema } from '$lib/forms/admin';
-import { exportBookingsCsv, MAX_EXPORT_ROWS } from '$lib/server/admin-bookings';
+import { exportBookingsCsv, MAX_EXPORT_ROWS } from '$lib/server/marketplace/admin-bookings';
 import { requireRole } from '$lib/server/http/guards';
 import type { RequestHandler } from './$types';
 

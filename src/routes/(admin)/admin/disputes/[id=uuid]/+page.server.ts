@@ -1,11 +1,11 @@
 import { error, fail } from '@sveltejs/kit';
 import { adminNoteSchema, dollarsToCents, settleSchema } from '$lib/forms/dispute';
 import { DISPUTE_REASON_LABELS, labelOf } from '$lib/labels';
-import { formatAud } from '$lib/money';
-import { titleOrUntitled } from '$lib/posted-job';
-import { formatSlotLabel, resolveSlotStart } from '$lib/schedule';
+import { formatAud } from '$lib/money/money';
+import { titleOrUntitled } from '$lib/marketplace/posted-job';
+import { formatSlotLabel, resolveSlotStart } from '$lib/work/schedule';
 import { formatDayTime } from '$lib/time';
-import { addAdminNote, getDisputeForAdmin, settleDispute } from '$lib/server/disputes';
+import { addAdminNote, getDisputeForAdmin, settleDispute } from '$lib/server/work/disputes';
 import { readDisputeForm } from '$lib/server/http/dispute-form';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';

@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
 import { payoutQuerySchema } from '$lib/forms/admin';
-import { MAX_EXPORT_ROWS } from '$lib/server/admin-bookings';
-import { exportPayoutsCsv } from '$lib/server/admin-payouts';
+import { MAX_EXPORT_ROWS } from '$lib/server/marketplace/admin-bookings';
+import { exportPayoutsCsv } from '$lib/server/money/admin-payouts';
 import { requireRole } from '$lib/server/http/guards';
 import type { RequestHandler } from './$types';
 

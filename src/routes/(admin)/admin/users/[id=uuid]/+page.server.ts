@@ -8,7 +8,7 @@ import {
 	reinstateAccount,
 	suspendAccount,
 	type AccountAction
-} from '$lib/server/admin-users';
+} from '$lib/server/people/admin-users';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalMessage } from '$lib/server/http/respond';

@@ -3,7 +3,7 @@ import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { decisionSchema } from '$lib/forms/vetting';
 import { requireRole } from '$lib/server/http/guards';
-import { decideApplication, getApplicationForReview } from '$lib/server/vetting';
+import { decideApplication, getApplicationForReview } from '$lib/server/people/vetting';
 import { refusalMessage } from '$lib/server/http/respond';
 import { DECISION_LABELS } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';

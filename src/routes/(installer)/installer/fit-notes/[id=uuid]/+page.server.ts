@@ -3,7 +3,7 @@ import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { fitNoteMarkSchema } from '$lib/forms/fit-note';
 import { discardUpload, storeUpload } from '$lib/server/files/uploads';
-import { addFitNotePhoto, getFitNote, markFitNote } from '$lib/server/fit-notes';
+import { addFitNotePhoto, getFitNote, markFitNote } from '$lib/server/fit-notes/fit-notes';
 import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/http/form-data';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';

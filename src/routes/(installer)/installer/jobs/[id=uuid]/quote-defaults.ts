@@ -3,11 +3,11 @@
  * sheet's guide prices (GST added) and free times from the installer's diary, preferring the
  * owner's preferred dates.
  */
-import { addGst } from '$lib/money';
-import { candidateSlots, repeatedTimeChoiceOf } from '$lib/schedule';
+import { addGst } from '$lib/money/money';
+import { candidateSlots, repeatedTimeChoiceOf } from '$lib/work/schedule';
 import { formatInZone } from '$lib/time';
-import type { InstallerContext, getJobForInstaller } from '$lib/server/matching';
-import { loadDiary } from '$lib/server/diary';
+import type { InstallerContext, getJobForInstaller } from '$lib/server/marketplace/matching';
+import { loadDiary } from '$lib/server/work/diary';
 import type { QuoteForm } from './quote-form';
 
 type FoundJob = NonNullable<Awaited<ReturnType<typeof getJobForInstaller>>>;

@@ -5,10 +5,10 @@
  */
 import { z } from 'zod';
 import { isCalendarDate, textField } from '$lib/forms/fields';
-import { MAX_QUOTE_SLOTS } from '$lib/pricing';
-import { resolveSlotStart } from '$lib/schedule';
+import { MAX_QUOTE_SLOTS } from '$lib/marketplace/pricing';
+import { resolveSlotStart } from '$lib/work/schedule';
 import { localToUtc } from '$lib/time';
-import type { QuoteInput } from '$lib/server/quotes';
+import type { QuoteInput } from '$lib/server/marketplace/quotes';
 
 const dollars = (what: string) =>
 	z

@@ -1,10 +1,10 @@
 import { error } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
-import { quoteGstNote } from '$lib/gst';
-import { titleOrUntitled } from '$lib/posted-job';
-import { formatSlotLabel } from '$lib/schedule';
+import { quoteGstNote } from '$lib/money/gst';
+import { titleOrUntitled } from '$lib/marketplace/posted-job';
+import { formatSlotLabel } from '$lib/work/schedule';
 import { requireRole } from '$lib/server/http/guards';
-import { getPayoutStatement } from '$lib/server/receipts';
+import { getPayoutStatement } from '$lib/server/money/receipts';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

@@ -3,8 +3,13 @@ import { message, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { adjustJobSchema, chosenWindows, withdrawSchema } from '$lib/forms/job';
 import { requireRole } from '$lib/server/http/guards';
-import { getLiveBookingForJob } from '$lib/server/bookings';
-import { adjustOpenJob, getOwnedJob, listJobPhotos, withdrawJob } from '$lib/server/jobs';
+import { getLiveBookingForJob } from '$lib/server/marketplace/bookings';
+import {
+	adjustOpenJob,
+	getOwnedJob,
+	listJobPhotos,
+	withdrawJob
+} from '$lib/server/marketplace/jobs';
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import { refusalMessage } from '$lib/server/http/respond';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,6 +1,6 @@
 import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/http/guards';
-import { createDraftJob } from '$lib/server/jobs';
+import { createDraftJob } from '$lib/server/marketplace/jobs';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = () => {

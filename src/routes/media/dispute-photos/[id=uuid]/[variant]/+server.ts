@@ -1,5 +1,5 @@
 import { error } from '@sveltejs/kit';
-import { findViewableDisputePhoto } from '$lib/server/disputes';
+import { findViewableDisputePhoto } from '$lib/server/work/disputes';
 import { requireRole } from '$lib/server/http/guards';
 import { missingImageResponse, objectResponse } from '$lib/server/files/storage';
 import type { RequestHandler } from './$types';

@@ -1,6 +1,6 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/http/guards';
-import { findViewableFitNotePhoto } from '$lib/server/fit-notes';
+import { findViewableFitNotePhoto } from '$lib/server/fit-notes/fit-notes';
 import { missingImageResponse, objectResponse } from '$lib/server/files/storage';
 import type { RequestHandler } from './$types';
 

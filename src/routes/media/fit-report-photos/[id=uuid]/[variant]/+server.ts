@@ -1,5 +1,5 @@
 import { error } from '@sveltejs/kit';
-import { findViewableFitReportPhoto } from '$lib/server/fit-reports';
+import { findViewableFitReportPhoto } from '$lib/server/work/fit-reports';
 import { missingImageResponse, objectResponse } from '$lib/server/files/storage';
 import { requireRole } from '$lib/server/http/guards';
 import type { RequestHandler } from './$types';

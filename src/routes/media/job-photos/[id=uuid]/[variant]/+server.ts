@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/http/guards';
-import { isQuotingInstaller } from '$lib/server/installers';
-import { findViewableJobPhoto } from '$lib/server/jobs';
+import { isQuotingInstaller } from '$lib/server/people/installers';
+import { findViewableJobPhoto } from '$lib/server/marketplace/jobs';
 import { missingImageResponse, objectResponse } from '$lib/server/files/storage';
 import type { RequestHandler } from './$types';
 

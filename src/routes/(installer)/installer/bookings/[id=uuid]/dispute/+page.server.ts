@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
 import { disputeEntrySchema } from '$lib/forms/dispute';
-import { titleOrUntitled } from '$lib/posted-job';
-import { addDisputeEntry, getDisputeForParty } from '$lib/server/disputes';
+import { titleOrUntitled } from '$lib/marketplace/posted-job';
+import { addDisputeEntry, getDisputeForParty } from '$lib/server/work/disputes';
 import { discardPhotos, readDisputeForm } from '$lib/server/http/dispute-form';
 import { disputeView } from '$lib/server/http/dispute-view';
 import { requireRole } from '$lib/server/http/guards';

@@ -1,5 +1,9 @@
 import { error } from '@sveltejs/kit';
-import { NOT_YOUR_BOOKING, getInstallRecord, installRecordView } from '$lib/server/fit-reports';
+import {
+	NOT_YOUR_BOOKING,
+	getInstallRecord,
+	installRecordView
+} from '$lib/server/work/fit-reports';
 import { requireRole } from '$lib/server/http/guards';
 import type { PageServerLoad } from './$types';
 

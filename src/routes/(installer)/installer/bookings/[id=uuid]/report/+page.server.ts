@@ -2,7 +2,11 @@ import { error, fail } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { FIT_FUSE_FAMILIES, fitReportSchemaFor } from '$lib/forms/fit-report';
-import { NOT_YOUR_BOOKING, fileFitReport, getReportableBooking } from '$lib/server/fit-reports';
+import {
+	NOT_YOUR_BOOKING,
+	fileFitReport,
+	getReportableBooking
+} from '$lib/server/work/fit-reports';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalMessage } from '$lib/server/http/respond';

@@ -2,11 +2,11 @@ import { fail, redirect } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { fitNoteSchema, NOTE_FUSE_FAMILIES } from '$lib/forms/fit-note';
-import { getPublishContext, publishFitNote } from '$lib/server/fit-notes';
+import { getPublishContext, publishFitNote } from '$lib/server/fit-notes/fit-notes';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { orError, refusalMessage } from '$lib/server/http/respond';
-import { titleOrUntitled } from '$lib/posted-job';
+import { titleOrUntitled } from '$lib/marketplace/posted-job';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';
 

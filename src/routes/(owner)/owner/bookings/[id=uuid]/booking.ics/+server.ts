@@ -1,6 +1,6 @@
 import { requireRole } from '$lib/server/http/guards';
 import { orError } from '$lib/server/http/respond';
-import { getBookingCalendarFile } from '$lib/server/booking-calendar';
+import { getBookingCalendarFile } from '$lib/server/work/booking-calendar';
 import type { RequestHandler } from './$types';
 
 /** The booking as a calendar file, for its owner only. */

@@ -1,9 +1,9 @@
 import { error } from '@sveltejs/kit';
-import { quoteGstNote } from '$lib/gst';
-import { titleOrUntitled } from '$lib/posted-job';
-import { formatSlotLabel } from '$lib/schedule';
+import { quoteGstNote } from '$lib/money/gst';
+import { titleOrUntitled } from '$lib/marketplace/posted-job';
+import { formatSlotLabel } from '$lib/work/schedule';
 import { requireRole } from '$lib/server/http/guards';
-import { getOwnerReceipt } from '$lib/server/receipts';
+import { getOwnerReceipt } from '$lib/server/money/receipts';
 import type { PageServerLoad } from './$types';
 
 /** Each ledger line with what the booking held after it. */

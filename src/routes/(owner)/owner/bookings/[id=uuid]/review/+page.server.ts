@@ -5,7 +5,7 @@ import { ownerReviewSchema } from '$lib/forms/review';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalMessage } from '$lib/server/http/respond';
-import { getReviewPanel, submitReview } from '$lib/server/reviews';
+import { getReviewPanel, submitReview } from '$lib/server/work/reviews';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';
 

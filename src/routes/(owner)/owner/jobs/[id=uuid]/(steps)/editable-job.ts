@@ -3,7 +3,7 @@ import { error, redirect } from '@sveltejs/kit';
 import type { SuperValidated } from 'sveltekit-superforms';
 import { nextStep, type JobStep } from '$lib/forms/job';
 import { requireRole } from '$lib/server/http/guards';
-import { getOwnedJob, type JobChange } from '$lib/server/jobs';
+import { getOwnedJob, type JobChange } from '$lib/server/marketplace/jobs';
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import { refusalMessage } from '$lib/server/http/respond';
 

@@ -1,16 +1,16 @@
 import { error } from '@sveltejs/kit';
 import { z } from 'zod';
-import { bestFitFormula, priceReferenceCents } from '$lib/ranking';
-import { jobStatusShown, quoteStatusShown } from '$lib/holds';
-import { getLiveBookingForJob } from '$lib/server/bookings';
+import { bestFitFormula, priceReferenceCents } from '$lib/marketplace/ranking';
+import { jobStatusShown, quoteStatusShown } from '$lib/marketplace/holds';
+import { getLiveBookingForJob } from '$lib/server/marketplace/bookings';
 import { requireRole } from '$lib/server/http/guards';
-import { getOwnedJob } from '$lib/server/jobs';
-import { listAskingInstallers } from '$lib/server/threads';
-import { listQuotesForOwner } from '$lib/server/quotes';
+import { getOwnedJob } from '$lib/server/marketplace/jobs';
+import { listAskingInstallers } from '$lib/server/marketplace/threads';
+import { listQuotesForOwner } from '$lib/server/marketplace/quotes';
 import { COMPARISON_SORTS, compareQuotes, type ComparisonSort } from './comparison';
 import { NOT_YOUR_JOB } from '$lib/server/refusal';
 import type { PageServerLoad } from './$types';
-import { titleOrUntitled } from '$lib/posted-job';
+import { titleOrUntitled } from '$lib/marketplace/posted-job';
 
 const sortSchema = z.object({
 	sort: z

@@ -1,11 +1,11 @@
 /**
  * The owner's comparison of the quotes on one job: one row per quote with what the table shows,
- * best-fit scores from $lib/ranking, and the sorts the table offers. No reviews exist yet, so
+ * best-fit scores from $lib/marketplace/ranking, and the sorts the table offers. No reviews exist yet, so
  * every installer's rating is the ranking's stated prior and the table says "no reviews yet".
  */
-import { quoteGstNote } from '$lib/gst';
-import { rankQuotes, ratingSummary, type BestFitScore } from '$lib/ranking';
-import type { listQuotesForOwner } from '$lib/server/quotes';
+import { quoteGstNote } from '$lib/money/gst';
+import { rankQuotes, ratingSummary, type BestFitScore } from '$lib/marketplace/ranking';
+import type { listQuotesForOwner } from '$lib/server/marketplace/quotes';
 
 type OwnerQuote = NonNullable<Awaited<ReturnType<typeof listQuotesForOwner>>>[number];
 

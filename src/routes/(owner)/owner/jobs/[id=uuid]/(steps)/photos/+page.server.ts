@@ -1,6 +1,6 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { photoKindSchema, type PhotoKind } from '$lib/forms/job';
-import { listJobPhotos, setJobPhoto } from '$lib/server/jobs';
+import { listJobPhotos, setJobPhoto } from '$lib/server/marketplace/jobs';
 import { loadEditableJob } from '../editable-job';
 import { readFormData, UNREADABLE_FORM_MESSAGE } from '$lib/server/http/form-data';
 import { deleteObject } from '$lib/server/files/storage';

@@ -2,11 +2,11 @@ import { error, fail } from '@sveltejs/kit';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { JobStep } from '$lib/forms/job';
 import { computeScope, jobRequestSchema } from '$lib/scope';
-import { draftProblems, listJobPhotos, postJob } from '$lib/server/jobs';
+import { draftProblems, listJobPhotos, postJob } from '$lib/server/marketplace/jobs';
 import { loadEditableJob } from '../editable-job';
 import { requireConfirmedRole } from '$lib/server/http/guards';
-import { getMarketSettings, scopeMarketOf } from '$lib/server/settings';
-import { countFitsOfBodyStyle, similarFitMinutes } from '$lib/server/calibration';
+import { getMarketSettings, scopeMarketOf } from '$lib/server/money/settings';
+import { countFitsOfBodyStyle, similarFitMinutes } from '$lib/server/marketplace/calibration';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

@@ -2,7 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { vehicleStepSchema } from '$lib/forms/job';
-import { saveJobStep } from '$lib/server/jobs';
+import { saveJobStep } from '$lib/server/marketplace/jobs';
 import { finishStep, loadEditableJob } from '../editable-job';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';

@@ -4,18 +4,18 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { threadMessageSchema } from '$lib/forms/thread';
 import { textField } from '$lib/forms/fields';
-import { jobStatusShown, quoteStatusShown } from '$lib/holds';
-import { bookQuote, getLiveBookingForJob, HOLD_MINUTES } from '$lib/server/bookings';
+import { jobStatusShown, quoteStatusShown } from '$lib/marketplace/holds';
+import { bookQuote, getLiveBookingForJob, HOLD_MINUTES } from '$lib/server/marketplace/bookings';
 import { requireConfirmedRole, requireRole } from '$lib/server/http/guards';
-import { getOwnedJob } from '$lib/server/jobs';
+import { getOwnedJob } from '$lib/server/marketplace/jobs';
 import { orError, refusalMessage } from '$lib/server/http/respond';
-import { formatSlotLabel } from '$lib/schedule';
-import { getOwnerThread, postJobMessage } from '$lib/server/threads';
-import { listQuotesForOwner } from '$lib/server/quotes';
+import { formatSlotLabel } from '$lib/work/schedule';
+import { getOwnerThread, postJobMessage } from '$lib/server/marketplace/threads';
+import { listQuotesForOwner } from '$lib/server/marketplace/quotes';
 import { CONTACTS_HIDDEN_NOTE } from '$lib/labels';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import type { Actions, PageServerLoad } from './$types';
-import { titleOrUntitled } from '$lib/posted-job';
+import { titleOrUntitled } from '$lib/marketplace/posted-job';
 import { readForm } from '$lib/server/http/read-form';
 
 const bookSchema = z.object({
