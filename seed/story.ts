@@ -14,26 +14,26 @@ import { eq } from 'drizzle-orm';
 import sharp from 'sharp';
 import { fitReportSchemaFor } from '$lib/forms/fit-report';
 import { fitNoteSchema } from '$lib/forms/fit-note';
-import { postedJobColumns } from '$lib/posted-job';
-import type { AspectStars, ReviewSide } from '$lib/reviews';
+import { postedJobColumns } from '$lib/marketplace/posted-job';
+import type { AspectStars, ReviewSide } from '$lib/work/reviews';
 import type { JobRequestInput } from '$lib/scope';
 import { formatInZone, localToUtc } from '$lib/time';
-import { bookQuote } from '$lib/server/bookings';
-import { confirmWork } from '$lib/server/completion';
+import { bookQuote } from '$lib/server/marketplace/bookings';
+import { confirmWork } from '$lib/server/work/completion';
 import { db } from '$lib/server/db';
 import { booking, job, payment, user } from '$lib/server/db/schema';
-import { openDispute } from '$lib/server/disputes';
+import { openDispute } from '$lib/server/work/disputes';
 import { storeUpload } from '$lib/server/files/uploads';
-import { fileFitReport, getReportableBooking } from '$lib/server/fit-reports';
-import { markFitNote, publishFitNote } from '$lib/server/fit-notes';
+import { fileFitReport, getReportableBooking } from '$lib/server/work/fit-reports';
+import { markFitNote, publishFitNote } from '$lib/server/fit-notes/fit-notes';
 import {
 	cancelPaidBooking,
 	receivePaymentWebhook,
 	startHeldFundsPayment
-} from '$lib/server/payments';
-import { submitQuote } from '$lib/server/quotes';
-import { submitReview } from '$lib/server/reviews';
-import { postJobMessage } from '$lib/server/threads';
+} from '$lib/server/money/payments';
+import { submitQuote } from '$lib/server/marketplace/quotes';
+import { submitReview } from '$lib/server/work/reviews';
+import { postJobMessage } from '$lib/server/marketplace/threads';
 import { SAMPLE_REQUEST } from './sample-request';
 import { suburbPoint } from './scenario';
 
@@ -67,13 +67,17 @@ const weekdayOf = (day: string) => new Date(`${day}T12:00:00Z`).getUTCDay();
 const addDays = (day: string, days: number) =>
 	new Date(Date.parse(`${day}T12:00:00Z`) + days * DAY).toISOString().slice(0, 10);
 
-/** Whether the demo installers work on the day: weekdays for all (see demoWeeklyHours). */
-const isWorkday = (day: string) => weekdayOf(day) >= 1 && weekdayOf(day) <= 5;
+/**
+ * Whether the demo installers work on the day: weekdays for all, Saturday mornings for the demo
+ * installer too (see demoWeeklyHours).
+ */
+const isWorkday = (day: string, saturdays = false) =>
+	(weekdayOf(day) >= 1 && weekdayOf(day) <= 5) || (saturdays && weekdayOf(day) === 6);
 
-/** The nearest weekday from `day` in `step` direction (the day itself when it is one). */
-function workdayFrom(day: string, step: 1 | -1): string {
+/** The nearest working day from `day` in `step` direction (the day itself when it is one). */
+function workdayFrom(day: string, step: 1 | -1, saturdays = false): string {
 	let d = day;
-	while (!isWorkday(d)) d = addDays(d, step);
+	while (!isWorkday(d, saturdays)) d = addDays(d, step);
 	return d;
 }
 
@@ -610,8 +614,8 @@ async function playStory(desk: PaymentsDesk, p: People, today: Date): Promise<De
 	await report(p, INSTALLER, awaitingConfirmation, reportAt);
 
 	// The demo installer's fit today (or their last working day), its report still to file.
-	const dueDay = workdayFrom(todayDay, -1);
-	const dueSlot = slotOn(dueDay, '08:00', '10:00');
+	const dueDay = workdayFrom(todayDay, -1, true);
+	const dueSlot = slotOn(dueDay, '09:00', '11:00');
 	const dueJob = await postJob(p, {
 		owner: LEILANI,
 		suburb: 'Prospect',

@@ -5,9 +5,9 @@
 // have refused it. (The vetting documents and hours are checked in seed-vetting-rules.test.ts.)
 import { and, eq, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { nextStage, type FitMove, type FitStageName } from '$lib/lifecycle';
-import { reviewWindowCloses } from '$lib/reviews';
-import { isWithinWorkingHours } from '$lib/schedule';
+import { nextStage, type FitMove, type FitStageName } from '$lib/work/lifecycle';
+import { reviewWindowCloses } from '$lib/work/reviews';
+import { isWithinWorkingHours } from '$lib/work/schedule';
 import { db } from '$lib/server/db';
 import {
 	booking,
@@ -21,10 +21,10 @@ import {
 	user,
 	vettingEvent
 } from '$lib/server/db/schema';
-import { getWeeklyHours } from '$lib/server/diary';
+import { getWeeklyHours } from '$lib/server/work/diary';
 import { demoTourIfLoaded } from '$lib/server/demo-tour';
-import { findLedgerProblems } from '$lib/server/ledger';
-import { reconcileWithProvider } from '$lib/server/receipts';
+import { findLedgerProblems } from '$lib/server/money/ledger';
+import { reconcileWithProvider } from '$lib/server/money/receipts';
 import { seedDemo } from '../../seed';
 import { startDemoWorld } from './demo-world';
 
@@ -110,6 +110,13 @@ describe('the demo obeys the product’s rules', () => {
 		const reconciliation = await reconcileWithProvider();
 		expect(reconciliation.ledgerCashCents).toBeGreaterThan(0);
 		expect(reconciliation.driftCents).toBe(0);
+		// Backdated through the domain functions' clock: each payment's ledger posting carries the
+		// time the payment was recorded, not the time the seed ran.
+		const drift = await db.execute(sql`
+			SELECT p.booking_id FROM payment p
+			JOIN ledger_transaction t ON t.booking_id = p.booking_id AND t.kind = 'payment'
+			WHERE t.created_at <> p.paid_at`);
+		expect(drift.rows).toEqual([]);
 		// Released, refunded and a late fee paid: money moved every way the product moves it.
 		const kinds = await db.execute<{ kind: string }>(
 			sql`SELECT DISTINCT kind FROM ledger_transaction ORDER BY kind`
