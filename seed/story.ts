@@ -8,7 +8,7 @@
  * History is backdated through the domain functions' clock (their `now`), never by editing rows
  * afterwards; the fake's own timestamps stay real. Dates count from the seeding day.
  */
-import { createServer, type Server } from 'node:http';
+import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { eq } from 'drizzle-orm';
 import sharp from 'sharp';
@@ -26,16 +26,13 @@ import { openDispute } from '$lib/server/work/disputes';
 import { storeUpload } from '$lib/server/files/uploads';
 import { fileFitReport, getReportableBooking } from '$lib/server/work/fit-reports';
 import { markFitNote, publishFitNote } from '$lib/server/fit-notes/fit-notes';
-import {
-	cancelPaidBooking,
-	receivePaymentWebhook,
-	startHeldFundsPayment
-} from '$lib/server/money/payments';
+import { cancelPaidBooking, startHeldFundsPayment } from '$lib/server/money/payments';
 import { submitQuote } from '$lib/server/marketplace/quotes';
 import { submitReview } from '$lib/server/work/reviews';
 import { postJobMessage } from '$lib/server/marketplace/threads';
 import { SAMPLE_REQUEST } from './sample-request';
 import { suburbPoint } from './scenario';
+import { startWebhookReceiver } from './webhook-receiver';
 
 const ZONE = 'Australia/Adelaide';
 const HOUR = 3_600_000;
@@ -123,28 +120,7 @@ class PaymentsDesk {
 					'Start it first (npm run fakes), or use npm start, which starts it before the seed.'
 			);
 		}
-		const hook = createServer((req, res) => {
-			const chunks: Buffer[] = [];
-			req.on('data', (c: Buffer) => chunks.push(c));
-			req.on('end', () => {
-				const signature = req.headers['stripe-signature'];
-				receivePaymentWebhook(
-					Buffer.concat(chunks).toString('utf8'),
-					typeof signature === 'string' ? signature : null,
-					desk.now
-				).then(
-					(outcome) => {
-						res.statusCode = outcome.status;
-						res.end(outcome.message);
-					},
-					(err: unknown) => {
-						res.statusCode = 500;
-						res.end(String(err));
-					}
-				);
-			});
-		});
-		await new Promise<void>((resolve) => hook.listen(0, '127.0.0.1', resolve));
+		const hook = await startWebhookReceiver(() => desk.now);
 		const desk = new PaymentsDesk(base, hook);
 		const { port: hookPort } = hook.address() as AddressInfo;
 		await desk.control('/webhook', { url: `http://127.0.0.1:${String(hookPort)}/` });
