@@ -3,6 +3,7 @@
 // .data/logs/start.log. SIGINT, SIGTERM or SIGHUP (or the parent npm going away) stops everything
 // it started; the data stays for next time.
 import path from 'node:path';
+import { DEMO_TOUR, DEMO_TOUR_PASSWORD } from '../src/lib/demo-tour.js';
 import { ROOT, appEnv, loadConfig } from './lib/config.mjs';
 import * as processes from './lib/processes.mjs';
 import { bold, createReport } from './lib/report.mjs';
@@ -97,7 +98,8 @@ async function main() {
 
 	// Loaded now: they use packages that npm ci has just installed.
 	const { prepareCluster, startCluster } = await import('./lib/postgres.mjs');
-	const { ensureDatabase, migrateDatabase, seedDatabase } = await import('./lib/database.mjs');
+	const { ensureDatabase, hasDemoAccounts, migrateDatabase, seedDatabase } =
+		await import('./lib/database.mjs');
 	const { ensureBuild } = await import('./lib/build.mjs');
 
 	let databaseUrl = config.externalDatabaseUrl;
@@ -167,14 +169,10 @@ async function main() {
 	report.printWarnings();
 
 	const seconds = ((Date.now() - started) / 1000).toFixed(0);
+	const tour = (await hasDemoAccounts(databaseUrl, DEMO_TOUR)) ? demoTourLines(env.ORIGIN) : '';
 	console.log(`
 ${bold('Tapline is running')} at ${env.ORIGIN}   (ready in ${seconds} s; Ctrl-C stops it)
-
-  Demo sign-ins (password for all: tapline-demo-2026)
-    owner       demo.owner@tapline.test
-    installer   demo.installer@tapline.test
-    admin       demo.admin@tapline.test
-
+${tour}
   Mail sent by the app: ${env.FAKE_MAIL_API}/
   Log of installs, build and start-up: ${report.relLog}
   From here on the app's and the fakes' output shows below.
@@ -182,6 +180,16 @@ ${bold('Tapline is running')} at ${env.ORIGIN}   (ready in ${seconds} s; Ctrl-C 
 	// Their output so far is in the log; from now on it also shows here.
 	app.echo = true;
 	fakes.echo = true;
+}
+
+/** What to try first, per demo account: three pages each (src/lib/demo-tour.js). */
+function demoTourLines(origin) {
+	const accounts = DEMO_TOUR.map(
+		(a) =>
+			`\n  ${bold(`${a.role}`)}  ${a.email}\n` +
+			a.stops.map((s) => `    ${s.label}\n      ${origin}${s.path}`).join('\n')
+	);
+	return `\n  Try the demo (password for every account: ${DEMO_TOUR_PASSWORD})${accounts.join('\n')}\n`;
 }
 
 main().catch(async (err) => {

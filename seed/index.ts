@@ -16,6 +16,7 @@ import { hashPassword } from '../src/lib/server/people/password';
 import { DEMO_CONNECTED_ACCOUNTS } from '../local-fakes/data/stripe-demo-accounts';
 import { demoDocumentFiles, storeDemoObjects, type DemoObject } from './documents';
 import { seedDemoJobs } from './jobs';
+import { seedDemoStory } from './story';
 import {
 	DEMO_ADMIN,
 	DEMO_INSTALLERS,
@@ -27,6 +28,9 @@ import {
 	suburbPoint
 } from './scenario';
 
+/** How long ago the demo accounts opened: before the oldest backdated booking (about 12 weeks). */
+const ACCOUNTS_AGE_DAYS = 150;
+
 const ALL_TICKED = { identityMatches: true, insuranceCurrent: true, abnValidAndActive: true };
 
 /** The demo connected account of the installer at `index` in the scenario. */
@@ -37,8 +41,10 @@ function demoPayoutAccount(index: number): string {
 }
 
 /**
- * Inserts the scenario in one transaction, then stores the demo installers' documents in the
- * object store (when S3_ENDPOINT is set); returns false when the database already had accounts.
+ * Inserts the people and open jobs of the scenario in one transaction, stores the demo installers'
+ * documents in the object store, then plays the bookings through the product (seed/story.ts: it
+ * needs the payments fake and the object store). Returns false when the database already had
+ * accounts. The accounts date from five months back, so the backdated history has people to it.
  */
 export async function seedDemo(databaseUrl: string): Promise<boolean> {
 	const pool = new pg.Pool({ connectionString: databaseUrl, max: 2 });
@@ -50,7 +56,8 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 		const files = await demoDocumentFiles();
 		const sizes = { insurance: files.insurance.byteLength, photoId: files.photoId.byteLength };
 		const objects: DemoObject[] = [];
-		const verified = new Date();
+		const today = new Date();
+		const verified = new Date(today.getTime() - ACCOUNTS_AGE_DAYS * 86_400_000);
 		const adminId = crypto.randomUUID();
 		await db.transaction(async (tx) => {
 			await tx.insert(user).values([
@@ -59,20 +66,27 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 					...DEMO_ADMIN,
 					role: 'admin',
 					passwordHash,
-					emailVerifiedAt: verified
+					emailVerifiedAt: verified,
+					createdAt: verified
 				},
 				...DEMO_OWNERS.map((o) => ({
 					id: crypto.randomUUID(),
 					...o,
 					role: 'owner' as const,
 					passwordHash,
-					emailVerifiedAt: verified
+					emailVerifiedAt: verified,
+					createdAt: verified
 				}))
 			]);
 			for (const [index, i] of DEMO_INSTALLERS.entries()) {
 				const id = crypto.randomUUID();
-				const details = demoInstallerDetails(index, verified);
-				const submittedAt = new Date(verified.getTime() - (40 - index) * 86_400_000);
+				const details = demoInstallerDetails(index, today);
+				// Vetted installers applied months ago, before their first fits; the rest wait in the
+				// queue since the last fortnight.
+				const vetted = i.status === 'approved' || i.status === 'suspended';
+				const submittedAt = vetted
+					? new Date(verified.getTime() + (index + 1) * 86_400_000)
+					: new Date(today.getTime() - (index + 1) * 86_400_000);
 				const point = suburbPoint(i.suburb);
 				await tx.insert(user).values({
 					id,
@@ -80,7 +94,8 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 					displayName: i.displayName,
 					role: 'installer',
 					passwordHash,
-					emailVerifiedAt: verified
+					emailVerifiedAt: verified,
+					createdAt: verified
 				});
 				await tx.insert(installerProfile).values({
 					userId: id,
@@ -122,13 +137,14 @@ export async function seedDemo(databaseUrl: string): Promise<boolean> {
 				await tx.insert(vettingEvent).values(demoTrail(id, adminId, i.status, submittedAt));
 			}
 		});
-		await seedDemoJobs(db, verified);
+		await seedDemoJobs(db, today);
 		const stored = await storeDemoObjects(objects);
 		if (stored === null) {
-			console.warn(
-				'S3_ENDPOINT is not set: the demo documents are listed but their files are not stored.'
+			throw new Error(
+				'S3_ENDPOINT is not set: the demo stores documents and photos in the object store, so start the fakes first (npm run fakes).'
 			);
 		}
+		await seedDemoStory(today);
 		return true;
 	} finally {
 		await pool.end();
@@ -196,7 +212,8 @@ function demoTrail(
 	}
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) {
+/** `npm run db:seed` (through scripts/run-ts.mjs): loads the scenario into DATABASE_URL. */
+export async function main(): Promise<void> {
 	const url = process.env.DATABASE_URL;
 	if (!url) throw new Error('DATABASE_URL is not set');
 	const seeded = await seedDemo(url);

@@ -6,7 +6,7 @@ import { ADELAIDE_SUBURBS } from '../local-fakes/data/adelaide-suburbs';
 import { isValidAbn } from '../src/lib/people/abn';
 import type { InstallerSkill } from '../src/lib/people/vetting';
 
-export const DEMO_PASSWORD = 'tapline-demo-2026';
+export { DEMO_TOUR_PASSWORD as DEMO_PASSWORD } from '../src/lib/demo-tour.js';
 
 export interface DemoInstaller {
 	email: string;

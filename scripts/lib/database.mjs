@@ -52,7 +52,8 @@ export async function migrateDatabase(url) {
 /**
  * Loads the demo scenario when the database has no accounts yet, through `run` (a report's run).
  * Returns 'loaded' or 'already there'. The check is a query here, so a later start does not pay
- * for starting tsx; the seed checks again itself. `storageEnv` (S3_ENDPOINT and the rest) lets
+ * for starting Vite; the seed checks again itself. It runs through scripts/run-ts.mjs, which needs
+ * nothing generated (no `.svelte-kit`, no build), so a fresh clone seeds before its first build. `storageEnv` (S3_ENDPOINT and the rest) lets
  * the seed store the demo documents' files, so the object store must be running first.
  */
 export async function seedDatabase(url, run, storageEnv = {}) {
@@ -64,8 +65,23 @@ export async function seedDatabase(url, run, storageEnv = {}) {
 	} finally {
 		await client.end();
 	}
-	const output = await run(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['seed/index.ts'], {
+	const output = await run(process.execPath, ['scripts/run-ts.mjs', 'seed/index.ts'], {
 		env: { ...storageEnv, DATABASE_URL: url }
 	});
 	return /skipped/.test(output) ? 'already there' : 'loaded';
+}
+
+/** True when every account of the demo tour (src/lib/demo-tour.js) exists with its role. */
+export async function hasDemoAccounts(url, accounts) {
+	const client = new pg.Client({ connectionString: url });
+	await client.connect();
+	try {
+		const { rows } = await client.query(
+			'SELECT count(*)::int AS n FROM "user" u JOIN unnest($1::text[], $2::text[]) AS t(email, role) ON u.email = t.email AND u.role::text = t.role',
+			[accounts.map((a) => a.email), accounts.map((a) => a.role)]
+		);
+		return rows[0]?.n === accounts.length;
+	} finally {
+		await client.end();
+	}
 }

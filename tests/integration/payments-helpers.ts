@@ -1,15 +1,16 @@
 // Held-funds tests: the payments fake started in-process, a small HTTP server standing in for the
 // app's webhook route (it calls the same function the route calls), and helpers to book and pay.
-import { createServer, type Server } from 'node:http';
+import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { eq } from 'drizzle-orm';
 import { startStripeFake, type StripeFake, type WebhookDelivery } from '../../local-fakes/stripe';
 import { bookQuote } from '$lib/server/marketplace/bookings';
 import { db } from '$lib/server/db';
 import { booking, payment, quote } from '$lib/server/db/schema';
-import { receivePaymentWebhook, startHeldFundsPayment } from '$lib/server/money/payments';
+import { startHeldFundsPayment } from '$lib/server/money/payments';
 import { startPayoutOnboarding } from '$lib/server/money/payouts';
 import { submitQuote } from '$lib/server/marketplace/quotes';
+import { startWebhookReceiver } from '../../seed/webhook-receiver';
 import { ADELAIDE, goodQuote, makeInstaller, makeOpenJob, pricedParts } from './matching-helpers';
 
 export const WEBHOOK_SECRET = 'whsec_integration_test_secret';
@@ -24,27 +25,7 @@ export interface PaymentsWorld {
 
 /** Starts the fake and the webhook receiver and points the SDK at them (through the env). */
 export async function startPaymentsWorld(): Promise<PaymentsWorld> {
-	const hook = createServer((req, res) => {
-		const chunks: Buffer[] = [];
-		req.on('data', (c: Buffer) => chunks.push(c));
-		req.on('end', () => {
-			const signature = req.headers['stripe-signature'];
-			receivePaymentWebhook(
-				Buffer.concat(chunks).toString('utf8'),
-				typeof signature === 'string' ? signature : null
-			).then(
-				(outcome) => {
-					res.statusCode = outcome.status;
-					res.end(outcome.message);
-				},
-				(err: unknown) => {
-					res.statusCode = 500;
-					res.end(String(err));
-				}
-			);
-		});
-	});
-	await new Promise<void>((resolve) => hook.listen(0, '127.0.0.1', resolve));
+	const hook = await startWebhookReceiver();
 	const hookPort = (hook.address() as AddressInfo).port;
 	const fake = await startStripeFake({
 		host: '127.0.0.1',

@@ -2,7 +2,6 @@ import { eq, inArray } from 'drizzle-orm';
 import { PDFDocument } from 'pdf-lib';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startS3Fake } from '../../local-fakes/s3';
 import { db } from '$lib/server/db';
 import { getObject } from '$lib/server/files/storage';
 import { getMarketSettings } from '$lib/server/money/settings';
@@ -16,6 +15,7 @@ import {
 } from '$lib/people/vetting';
 import { seedDemo } from '../../seed';
 import { DEMO_CONNECTED_ACCOUNTS } from '../../local-fakes/data/stripe-demo-accounts';
+import { startDemoWorld } from './demo-world';
 
 // The admin's ticks are judgement, recorded in the seed's approval events as all ticked.
 const ALL_TICKED: Checklist = {
@@ -24,16 +24,13 @@ const ALL_TICKED: Checklist = {
 	abnValidAndActive: true
 };
 
-let closeStore: () => Promise<void>;
-
+let stop: () => Promise<void>;
 beforeAll(async () => {
-	// The seed stores the demo documents through the S3 API, as under npm start.
-	const fake = await startS3Fake({ host: '127.0.0.1', port: 0 });
-	closeStore = fake.close;
-	process.env.S3_ENDPOINT = fake.url;
-	process.env.S3_BUCKET = 'seed-test';
+	// The seed stores the demo documents through the S3 API and pays on the payments fake, as under
+	// npm start.
+	stop = await startDemoWorld();
 });
-afterAll(() => closeStore());
+afterAll(() => stop());
 
 describe('the demo data obeys the vetting rules', () => {
 	it('every vetted installer has what sending and approving an application require', async () => {

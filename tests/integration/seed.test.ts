@@ -1,9 +1,16 @@
 import { count, eq } from 'drizzle-orm';
-import { describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { installerProfile, user } from '$lib/server/db/schema';
 import { seedDemo } from '../../seed';
 import { DEMO_INSTALLERS } from '../../seed/scenario';
+import { startDemoWorld } from './demo-world';
+
+let stop: () => Promise<void>;
+beforeAll(async () => {
+	stop = await startDemoWorld();
+});
+afterAll(() => stop());
 
 describe('demo seed', () => {
 	it('loads one admin, the owners and a dozen installers around Adelaide, once', async () => {

@@ -1,9 +1,16 @@
 import { eq } from 'drizzle-orm';
-import { describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '$lib/server/db';
 import { installerHours, installerProfile, user, vettingEvent } from '$lib/server/db/schema';
 import { canQuote, localDate } from '$lib/people/vetting';
 import { seedDemo } from '../../seed';
+import { startDemoWorld } from './demo-world';
+
+let stop: () => Promise<void>;
+beforeAll(async () => {
+	stop = await startDemoWorld();
+});
+afterAll(() => stop());
 
 /**
  * The ABN check written out again, independently of $lib/people/abn (Australian Business Register,

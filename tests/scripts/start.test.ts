@@ -8,6 +8,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
 import { portIsFree, portOwner } from '../../scripts/lib/processes.mjs';
+import { alive, descendants, freePorts, waitFor } from './process-tree';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const SHIFT = Number(process.env.TAPLINE_TEST_PORT_SHIFT ?? 1000);
@@ -32,23 +33,6 @@ interface Started {
 const started: Started[] = [];
 /** Every process seen below a started npm start, for the clean-up after a failed test. */
 const seen = new Set<number>();
-
-/** Ports the OS says are free right now. */
-async function freePorts(n: number): Promise<number[]> {
-	const servers = await Promise.all(
-		Array.from(
-			{ length: n },
-			() =>
-				new Promise<net.Server>((resolve) => {
-					const server = net.createServer();
-					server.listen(0, '127.0.0.1', () => resolve(server));
-				})
-		)
-	);
-	const ports = servers.map((s) => (s.address() as net.AddressInfo).port);
-	await Promise.all(servers.map((s) => new Promise((r) => s.close(r))));
-	return ports;
-}
 
 async function startEnv() {
 	const [app = 0, smtp = 0, mail = 0, s3 = 0, geocode = 0, tiles = 0, payments = 0] =
@@ -93,14 +77,6 @@ function launch(env: NodeJS.ProcessEnv, viaNpm = false): Started {
 	return run;
 }
 
-async function waitFor(test: () => boolean, what: string, timeoutMs: number): Promise<void> {
-	const deadline = Date.now() + timeoutMs;
-	while (!test()) {
-		if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-		await new Promise((r) => setTimeout(r, 200));
-	}
-}
-
 async function waitForReady(run: Started): Promise<void> {
 	await waitFor(
 		() => /Tapline is running/.test(run.output()) || run.child.exitCode !== null,
@@ -108,47 +84,6 @@ async function waitForReady(run: Started): Promise<void> {
 		150_000
 	);
 	if (run.child.exitCode !== null) throw new Error(`npm start failed:\n${run.output()}`);
-}
-
-/** A pid's state letter from /proc (Z for a zombie), or null when it is gone. */
-function state(pid: number): string | null {
-	try {
-		const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
-		return stat.slice(stat.lastIndexOf(')') + 2, stat.lastIndexOf(')') + 3);
-	} catch {
-		return null;
-	}
-}
-const alive = (pid: number) => ![null, 'Z', 'X'].includes(state(pid));
-
-function parentOf(pid: number): number | null {
-	try {
-		const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
-		return Number(stat.slice(stat.lastIndexOf(')') + 2).split(' ')[1]);
-	} catch {
-		return null;
-	}
-}
-
-/** Every live process below `root` in the process tree. */
-function descendants(root: number): number[] {
-	const all = readdirSync('/proc')
-		.filter((d) => /^\d+$/.test(d))
-		.map(Number);
-	const below = new Set([root]);
-	let grew = true;
-	while (grew) {
-		grew = false;
-		for (const pid of all) {
-			const parent = parentOf(pid);
-			if (parent !== null && below.has(parent) && !below.has(pid)) {
-				below.add(pid);
-				grew = true;
-			}
-		}
-	}
-	below.delete(root);
-	return [...below].filter(alive);
 }
 
 /** Who listens on each port, checked to be a process that `npm start` started. */

@@ -19,6 +19,8 @@ export interface LedgerPosting {
 	memo: string;
 	entries: { account: LedgerAccount; amountCents: number }[];
 	reverses?: string;
+	/** When it happened, on the caller's clock (its `now`); the database's time when absent. */
+	at?: Date;
 }
 
 /**
@@ -47,7 +49,8 @@ export async function postLedgerTransaction(
 			bookingId: posting.bookingId,
 			reference: posting.reference,
 			memo: posting.memo,
-			reverses: posting.reverses ?? null
+			reverses: posting.reverses ?? null,
+			...(posting.at ? { createdAt: posting.at } : {})
 		})
 		.onConflictDoNothing({ target: [ledgerTransaction.kind, ledgerTransaction.reference] })
 		.returning({ id: ledgerTransaction.id });

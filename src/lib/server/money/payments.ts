@@ -340,6 +340,7 @@ async function recordPaid(
 		bookingId,
 		reference: paymentIntentId,
 		memo: `Owner's payment into held funds`,
+		at: now,
 		entries: [
 			{ account: 'platform_cash', amountCents },
 			{ account: 'owner_funds_held', amountCents: -amountCents }
@@ -518,7 +519,8 @@ export async function refundInTx(
 	bookingId: string,
 	paymentIntentId: string,
 	amountCents: number,
-	key: string
+	key: string,
+	now?: Date
 ): Promise<string> {
 	const refund = await stripe().refunds.create(
 		{
@@ -534,6 +536,7 @@ export async function refundInTx(
 		bookingId,
 		reference: refund.id,
 		memo: 'Refund to the owner',
+		at: now,
 		entries: [
 			{ account: 'owner_funds_held', amountCents },
 			{ account: 'platform_cash', amountCents: -amountCents }
@@ -586,6 +589,7 @@ export async function releaseInTx(tx: Tx, release: ReleaseInTx) {
 		bookingId,
 		reference: transferId ?? release.referenceWithoutTransfer,
 		memo: `Released: ${formatAud(split.payoutCents)} to the installer, Tapline's fee ${formatAud(split.feeCents)} (GST ${formatAud(split.gstOnFeeCents)})`,
+		at: now,
 		entries: [
 			{ account: 'owner_funds_held', amountCents: split.totalCents },
 			{ account: 'fee_revenue', amountCents: -(split.feeCents - split.gstOnFeeCents) },
@@ -848,7 +852,8 @@ export async function cancelPaidBooking(
 					bookingId,
 					paid.paymentIntentId,
 					settlement.refundCents,
-					'cancellation'
+					'cancellation',
+					now
 				);
 			}
 			const installer = await installerOf(tx, b.installerId);
@@ -870,6 +875,7 @@ export async function cancelPaidBooking(
 					bookingId,
 					reference: transfer.id,
 					memo: 'Late-cancellation fee to the installer',
+					at: now,
 					entries: [
 						{ account: 'owner_funds_held', amountCents: settlement.lateFeeCents },
 						{ account: 'platform_cash', amountCents: -settlement.lateFeeCents }
