@@ -234,6 +234,9 @@ export const EXPECTED: Record<string, Row> = {
 	'POST /installer/service-area ?/default': installerArea(ACT),
 	'GET /installer/service-area (page)': installerArea('ok'),
 
+	// ----- The landing page (lists the demo's pages while the demo accounts exist) -----
+	'GET / (page)': everyone('ok'),
+
 	// ----- Public profile (the vetted installer's) -----
 	'GET /installers/[id=uuid] (page)': everyone('ok'),
 

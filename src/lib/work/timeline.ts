@@ -50,22 +50,30 @@ export type TimelineEntry =
 /**
  * At one instant, the order that reads as cause before effect: the booking, the provider's event,
  * the payment step it caused, then the ledger lines written with it (all in one transaction, so
- * they often share a timestamp), then messages.
+ * they often share a timestamp), then the work, then messages. Money that a step of the work
+ * moves (a release on acceptance, a refund or late fee on settlement or cancellation) is written
+ * at that step's instant, so at one instant it reads after the work.
  */
-const KIND_ORDER: Record<TimelineEntry['kind'], number> = {
+const KIND_ORDER: Record<TimelineEntry['kind'] | 'moved-by-work', number> = {
 	booking: 0,
 	'provider-event': 1,
 	payment: 2,
 	ledger: 3,
 	work: 4,
-	message: 5
+	'moved-by-work': 5,
+	message: 6
 };
+
+function rank(e: TimelineEntry): number {
+	if (e.kind === 'ledger' && e.transactionKind !== 'payment') return KIND_ORDER['moved-by-work'];
+	return KIND_ORDER[e.kind];
+}
 
 /** Orders two entries by time, then kind (KIND_ORDER), then key: never a tie for distinct keys. */
 export function compareTimelineEntries(a: TimelineEntry, b: TimelineEntry): number {
 	return (
 		a.at.getTime() - b.at.getTime() ||
-		KIND_ORDER[a.kind] - KIND_ORDER[b.kind] ||
+		rank(a) - rank(b) ||
 		(a.key < b.key ? -1 : a.key > b.key ? 1 : 0)
 	);
 }
