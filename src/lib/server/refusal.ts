@@ -1,7 +1,7 @@
 /**
  * The one shape in which a domain module says no: an HTTP status a page should answer with, a
  * message a person understands, and optionally the fields at fault. Domain modules return it
- * (they never import `@sveltejs/kit`); `$lib/server/respond.ts` turns it into `error()` or a form
+ * (they never import `@sveltejs/kit`); `$lib/server/http/respond.ts` turns it into `error()` or a form
  * message.
  */
 
