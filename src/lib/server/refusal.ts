@@ -33,5 +33,4 @@ export const isRefusal = (value: unknown): value is Refusal =>
 
 /** Messages several modules give, written once. */
 export const NOT_YOUR_JOB = 'There is no such job among yours.';
-export const NO_SUCH_JOB = 'There is no such job.';
 export const NO_SUCH_BOOKING = 'There is no such booking.';
