@@ -151,7 +151,9 @@ async function startApp(buildDir: string, port: number): Promise<ChildProcess> {
 		...appEnv(config, databaseUrl),
 		PORT: String(port),
 		ORIGIN: `http://127.0.0.1:${String(port)}`,
-		TAPLINE_WORKER: 'off'
+		TAPLINE_WORKER: 'off',
+		// serves /api/bench/baseline, which the app answers only when the benchmark started it
+		TAPLINE_BENCH: 'on'
 	};
 	const app = spawn(process.execPath, [path.join(ROOT, buildDir, 'index.js')], {
 		env,

@@ -139,7 +139,7 @@ export const EXPECTED: Record<string, Row> = {
 
 	// ----- JSON and other endpoints -----
 	// The benchmark's baseline: a constant answer with no data, open to all.
-	'GET /api/bench/baseline': everyone('ok'),
+	'GET /api/bench/baseline': everyone('missing'),
 	// The job board as JSON: vetted installers only; a status, not the sign-in redirect.
 	'GET /api/jobs': {
 		...anyAccount('forbidden'),

@@ -1,7 +1,7 @@
 /**
  * The one shape in which a domain module says no: an HTTP status a page should answer with, a
  * message a person understands, and optionally the fields at fault. Domain modules return it
- * (they never import `@sveltejs/kit`); `$lib/server/respond.ts` turns it into `error()` or a form
+ * (they never import `@sveltejs/kit`); `$lib/server/http/respond.ts` turns it into `error()` or a form
  * message.
  */
 
@@ -33,5 +33,4 @@ export const isRefusal = (value: unknown): value is Refusal =>
 
 /** Messages several modules give, written once. */
 export const NOT_YOUR_JOB = 'There is no such job among yours.';
-export const NO_SUCH_JOB = 'There is no such job.';
 export const NO_SUCH_BOOKING = 'There is no such booking.';

@@ -1,7 +1,8 @@
 /**
  * The "Booking time" page of either side (/owner/bookings/[id]/time and
- * /installer/bookings/[id]/time): its load and actions, written once. Each route calls these with
- * its own side after `requireRole`, so the role area and the row check both hold.
+ * /installer/bookings/[id]/time): its load and actions, written once. Each route takes them from
+ * `bookingTimePage(side)`, which checks the side's role before anything else, so the role area and
+ * the row check both hold.
  */
 import { error, fail, type Cookies } from '@sveltejs/kit';
 import { superValidate } from 'sveltekit-superforms';
@@ -18,6 +19,7 @@ import {
 	withdrawProposal,
 	type Party
 } from '../work/rescheduling';
+import { requireConfirmedRole, requireRole } from './guards';
 import { redirectWithNotice } from './notice';
 import { refusalFail, refusalMessage } from './respond';
 
@@ -85,3 +87,28 @@ export const bookingTimeActions = {
 		redirectWithNotice(cookies, here(who, bookingId), 'Proposal withdrawn.');
 	}
 };
+
+interface TimeEvent {
+	params: { id: string };
+	request: Request;
+	cookies: Cookies;
+}
+
+/** The load and actions of one side's "Booking time" page; the routes differ only in the side. */
+export function bookingTimePage(side: Party['side']) {
+	const who = (): Party => ({ id: requireRole(side).id, side });
+	const acting = (): Party => ({ id: requireConfirmedRole(side).id, side });
+	return {
+		load: ({ params }: Pick<TimeEvent, 'params'>) => loadBookingTime(params.id, who()),
+		actions: {
+			propose: ({ request, params, cookies }: TimeEvent) =>
+				bookingTimeActions.propose(request, params.id, acting(), cookies),
+			accept: ({ params, cookies }: TimeEvent) =>
+				bookingTimeActions.answer(params.id, acting(), 'accept', cookies),
+			decline: ({ params, cookies }: TimeEvent) =>
+				bookingTimeActions.answer(params.id, acting(), 'decline', cookies),
+			withdraw: ({ params, cookies }: TimeEvent) =>
+				bookingTimeActions.withdraw(params.id, acting(), cookies)
+		}
+	};
+}

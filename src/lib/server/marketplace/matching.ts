@@ -38,7 +38,7 @@ import { withMail } from '../mail/outbox';
 import { scopeSummary, titleOrUntitled } from '$lib/marketplace/posted-job';
 import type { ScopeSheet } from '$lib/scope';
 
-export { boardQuerySchema, MAX_SERVICE_RADIUS_KM, type BoardQuery } from './board-sql';
+export { boardQuerySchema, type BoardQuery } from './board-sql';
 
 /** An installer as the matching sees them. */
 export interface InstallerContext extends InstallerReach {

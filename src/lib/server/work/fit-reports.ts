@@ -5,7 +5,7 @@
  * the stored photos are removed again. The record is the booking's vehicle, parts and latest
  * report, for its owner, its installer and admins only.
  */
-import { and, asc, count, desc, eq, inArray, isNotNull } from 'drizzle-orm';
+import { and, asc, count, desc, eq } from 'drizzle-orm';
 import {
 	describeFitReport,
 	photoCountProblem,
@@ -296,24 +296,6 @@ export async function findViewableFitReportPhoto(photoId: string, viewer: Record
 		.where(eq(fitReportPhoto.id, photoId));
 	if (!row || !mayView(viewer, row)) return null;
 	return { objectKey: row.objectKey, thumbKey: row.thumbKey };
-}
-
-/** The bookings among `ids` whose fit report may be filed now (for the installer's lists). */
-export async function bookingsAwaitingReport(ids: string[]): Promise<Set<string>> {
-	if (ids.length === 0) return new Set();
-	const rows = await db
-		.select({ id: booking.id })
-		.from(booking)
-		.innerJoin(payment, eq(payment.bookingId, booking.id))
-		.where(
-			and(
-				inArray(booking.id, ids),
-				eq(booking.status, 'confirmed'),
-				eq(booking.stage, 'to_fit'),
-				isNotNull(payment.paidAt)
-			)
-		);
-	return new Set(rows.map((r) => r.id));
 }
 
 /** The record as plain words for the printable page (days with the year: records are kept). */
