@@ -100,6 +100,17 @@ test('owner raises a problem, installer responds, an admin settles with a partia
 		'already cracked'
 	);
 	await expect(page.getByTestId('dispute-held')).toContainText('$353.00 · $353.00');
+	// The tick is checked on the server: a settlement posted without it moves no money.
+	const unticked = await page.request.post(`${page.url()}?/settle`, {
+		form: { outcome: 'full_refund', note: 'Posted straight to the server, no tick.' },
+		headers: { origin: new URL(page.url()).origin, 'x-sveltekit-action': 'true' }
+	});
+	expect(await unticked.text()).toContain('Tick the box to confirm');
+	const [stillOpen] = await query<{ status: string }>(
+		`select d.status from dispute d where d.booking_id = $1`,
+		[bookingId]
+	);
+	expect(stillOpen!.status).not.toBe('settled');
 	await page.getByLabel('Part refunded to the owner, the rest released').check();
 	await page.getByLabel(/Refund to the owner/).fill('50');
 	await page

@@ -199,6 +199,15 @@ describe('webhooks', () => {
 		const answer = await receivePaymentWebhook(payload, stale);
 		expect(answer.status).toBe(400);
 		expect(answer.message).toMatch(/tolerance/i);
+		// An hour ahead is refused too: the tolerance holds in both directions.
+		const ahead = stripe().webhooks.generateTestHeaderString({
+			payload,
+			secret: WEBHOOK_SECRET,
+			timestamp: Math.floor(Date.now() / 1000) + 3600
+		});
+		const early = await receivePaymentWebhook(payload, ahead);
+		expect(early.status).toBe(400);
+		expect(early.message).toMatch(/tolerance/i);
 		// The same body signed now is accepted (so the refusals above were about the signature).
 		const good = stripe().webhooks.generateTestHeaderString({ payload, secret: WEBHOOK_SECRET });
 		const rows = await db.execute(sql`select 1 from payment_event where event_id = 'evt_forged'`);

@@ -47,9 +47,10 @@ export const settleSchema = z
 			.default(''),
 		visitTime: textField().trim().max(5).default(''),
 		note: words(5, 1000, 'an explanation both sides will read'),
-		confirm: z
-			.string()
-			.optional()
+		// A default, not optional(): zod skips an optional field's refinement when the field is
+		// missing, and a settlement posted without the tick went through.
+		confirm: textField()
+			.default('')
 			.refine((v) => v === 'on' || v === 'true', { message: 'Tick the box to confirm' })
 	})
 	.superRefine((v, ctx) => {

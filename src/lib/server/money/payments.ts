@@ -185,6 +185,21 @@ export interface WebhookOutcome {
 	message: string;
 }
 
+/** Seconds a signed timestamp may differ from the clock: the SDK's own default tolerance. */
+const SIGNATURE_TOLERANCE_SECONDS = 300;
+
+/**
+ * The SDK refuses a timestamp too far in the past only; one too far in the future is refused here,
+ * so a delivery signed ahead of time cannot be replayed later.
+ */
+function refuseFutureTimestamp(signature: string) {
+	const signedAt = Number(/(?:^|,)t=(\d+)/.exec(signature)?.[1]);
+	if (!Number.isFinite(signedAt)) throw new Error('No timestamp in the signature header');
+	if (signedAt - Date.now() / 1000 > SIGNATURE_TOLERANCE_SECONDS) {
+		throw new Error('Timestamp outside the tolerance zone (in the future)');
+	}
+}
+
 /**
  * Verifies and processes one webhook delivery. A bad or stale signature is a 400; an event id
  * seen before is a 200 that changes nothing; anything else is processed in one transaction with
@@ -199,6 +214,7 @@ export async function receivePaymentWebhook(
 	try {
 		if (!signature) throw new Error('No Stripe-Signature header');
 		event = stripe().webhooks.constructEvent(rawBody, signature, webhookSecret());
+		refuseFutureTimestamp(signature);
 	} catch (err) {
 		return { status: 400, message: err instanceof Error ? err.message : 'Bad signature' };
 	}
