@@ -6,6 +6,7 @@ import {
 	formatDayTime,
 	formatDayTimeRange,
 	formatInZone,
+	formatRecordDayTime,
 	isRepeatedWallTime,
 	localToUtc,
 	resolveLocalTime,
@@ -220,6 +221,19 @@ describe('formatDayTimeRange: a booked slot in the same style', () => {
 		const end = new Date('2027-01-05T22:30:00Z'); // Wed 6 Jan 2027, 9:00 am
 		expect(formatDayTimeRange(start, end, ZONE, now)).toBe(
 			'Tue 5 Jan 2027, 4:00 pm – Wed 6 Jan 2027, 9:00 am'
+		);
+	});
+});
+
+describe('formatRecordDayTime: dates on receipts and statements', () => {
+	it('always carries the year, this year too', () => {
+		// Source: IANA tz 'australasia', Adelaide is UTC+10:30 in December; 8 Dec 2026 is a
+		// Tuesday (from memory, checkable on any calendar).
+		const thisYear = new Date().getUTCFullYear();
+		const instant = new Date(`${thisYear}-06-15T00:00:00Z`);
+		expect(formatRecordDayTime(instant, ZONE)).toContain(String(thisYear));
+		expect(formatRecordDayTime(new Date('2026-12-07T20:00:00Z'), ZONE)).toBe(
+			'Tue 8 Dec 2026, 6:30 am'
 		);
 	});
 });

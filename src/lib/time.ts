@@ -274,6 +274,15 @@ export function formatDayTime(
 }
 
 /**
+ * A day and time for a record kept for years (receipts, statements, tax invoices): always with
+ * the year, 'Tue 8 Dec 2026, 9:00 am', whatever year it is now.
+ */
+export function formatRecordDayTime(instant: Date, zone: string = DEFAULT_TIME_ZONE): string {
+	const day = formatInZone(instant, zone, 'EEE d MMM yyyy');
+	return `${day}, ${formatInZone(instant, zone, 'h:mm a').toLowerCase()}`;
+}
+
+/**
  * A span of time as people read it: 'Tue 8 Dec, 9:00 am – 11:00 am', or with both days when it
  * ends on another day ('Tue 8 Dec, 4:00 pm – Wed 9 Dec, 9:00 am'); days as in {@link formatDay}.
  * @param start the first moment

@@ -204,6 +204,10 @@ test('installers find a demo job on the map and quote; the owner compares and bo
 	await expect(owner.getByRole('heading', { name: 'Receipt' })).toBeVisible();
 	await expect(owner.getByTestId('receipt-total')).toHaveText(bookingTotal!);
 	await expect(owner.getByTestId('receipt')).toContainText('Paid into held funds');
+	// A receipt is kept for years: its date carries the year even in the current one.
+	await expect(owner.getByTestId('receipt-paid-on')).toHaveText(
+		new RegExp(`\\b${new Date().getUTCFullYear()}|\\b${new Date().getUTCFullYear() + 1}`)
+	);
 	await waitForMail(DEMO.owner, /Booked and paid: 2018 Demo Hatch/);
 
 	// Now the installer sees the owner's name and address, and was told.

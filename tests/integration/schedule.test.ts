@@ -268,6 +268,25 @@ describe('a cancelled booking', () => {
 		expect(proposals[0]!.status).toBe('withdrawn');
 		expect(proposals[0]!.answeredAt).toBeInstanceOf(Date);
 	});
+
+	it('gets a calendar file that cancels the event: same UID, SEQUENCE raised', async () => {
+		const made = await paid();
+		const booked = await getBookingCalendarFile(made.bookingId, made.owner);
+		if (!booked.ok) throw new Error(booked.message);
+		expect((await cancelPaidBooking(made.bookingId, 'owner', made.ownerId)).ok).toBe(true);
+		for (const side of [made.owner, made.installer]) {
+			const file = await getBookingCalendarFile(made.bookingId, side);
+			if (!file.ok) throw new Error(file.message);
+			const calendar = new ICAL.Component(ICAL.parse(file.ics));
+			expect(calendar.getFirstPropertyValue('method')).toBe('CANCEL');
+			expect(calendar.getFirstSubcomponent('vevent')?.getFirstPropertyValue('status')).toBe(
+				'CANCELLED'
+			);
+			const event = parseEvent(file.ics);
+			expect(event.uid).toBe(parseEvent(booked.ics).uid);
+			expect(event.sequence).toBe(parseEvent(booked.ics).sequence + 1);
+		}
+	});
 });
 
 describe('overlaps with the installer’s other bookings', () => {

@@ -1,6 +1,6 @@
 import ICAL from 'ical.js';
 import { describe, expect, it } from 'vitest';
-import { bookingCalendarFile, bookingEventUid } from './booking-ics';
+import { bookingCalendarFile, bookingEventUid, foldContentLine } from './booking-ics';
 
 // Read back with ical.js, a second iCalendar library (RFC 5545), not the one that wrote the file.
 function read(text: string) {
@@ -38,5 +38,43 @@ describe('bookingCalendarFile', () => {
 		const { event, status } = read(bookingCalendarFile({ ...EVENT, cancelled: true }));
 		expect(status).toBe('CANCELLED');
 		expect(event.uid).toBe(bookingEventUid(EVENT.bookingId));
+	});
+});
+
+describe('bookingCalendarFile for a cancelled booking', () => {
+	it('is METHOD:CANCEL, STATUS:CANCELLED, the same UID and SEQUENCE one above the last file', () => {
+		const text = bookingCalendarFile({ ...EVENT, cancelled: true });
+		const calendar = new ICAL.Component(ICAL.parse(text));
+		expect(calendar.getFirstPropertyValue('method')).toBe('CANCEL');
+		const { event, status } = read(text);
+		expect(status).toBe('CANCELLED');
+		expect(event.uid).toBe(bookingEventUid(EVENT.bookingId));
+		expect(event.sequence).toBe(EVENT.sequence + 1);
+	});
+});
+
+describe('line folding', () => {
+	// RFC 5545 section 3.1: content lines are at most 75 octets (UTF-8), excluding the CRLF.
+	const encoder = new TextEncoder();
+	const longText = 'Fahrzeug Ü: câble sous le tableau, fusible à côté — été. '.repeat(6);
+
+	it('keeps every line within 75 octets even with non-ASCII text', () => {
+		const text = bookingCalendarFile({ ...EVENT, description: longText, location: longText });
+		for (const line of text.split('\r\n')) {
+			expect(encoder.encode(line).length).toBeLessThanOrEqual(75);
+		}
+	});
+
+	it('reads back the exact text through an independent parser', () => {
+		const { event } = read(bookingCalendarFile({ ...EVENT, description: longText }));
+		expect(event.description).toBe(longText);
+	});
+
+	it('never splits a multi-byte character', () => {
+		const folded = foldContentLine('DESCRIPTION:' + 'é'.repeat(80));
+		const lines = folded.split('\r\n');
+		expect(lines.length).toBeGreaterThan(1);
+		for (const line of lines) expect(line).not.toContain('\uFFFD');
+		expect(folded.replace(/\r\n /g, '')).toBe('DESCRIPTION:' + 'é'.repeat(80));
 	});
 });

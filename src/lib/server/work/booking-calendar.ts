@@ -9,7 +9,7 @@ import { addCalendarDays, buildWeek, weekFromParam, type WeekDay } from '$lib/wo
 import { titleOrUntitled } from '$lib/marketplace/posted-job';
 import { localToUtc } from '$lib/time';
 import { db } from '../db';
-import { booking, installerBlockedDate, installerProfile, job, user } from '../db/schema';
+import { booking, installerBlockedDate, installerProfile, job, payment, user } from '../db/schema';
 import { getWeeklyHours } from './diary';
 import { appUrl } from '../mail/app-url';
 import { bookingPath, type Party } from './rescheduling';
@@ -53,7 +53,8 @@ const placeColumns = {
 
 /**
  * The .ics file of a booking for one of its sides: 404 for anyone else's booking, 409 until it
- * is paid (the address is not the installer's to see before then).
+ * is paid (the address is not the installer's to see before then). A booking cancelled after it
+ * was paid gets the file that takes the event out of calendars.
  */
 export async function getBookingCalendarFile(
 	bookingId: string,
@@ -72,17 +73,20 @@ export async function getBookingCalendarFile(
 			sequence: booking.calendarSequence,
 			title: job.title,
 			businessName: installerProfile.businessName,
-			ownerName: user.displayName
+			ownerName: user.displayName,
+			paidAt: payment.paidAt
 		})
 		.from(booking)
 		.innerJoin(job, eq(job.id, booking.jobId))
 		.innerJoin(installerProfile, eq(installerProfile.userId, booking.installerId))
 		.innerJoin(user, eq(user.id, booking.ownerId))
+		.leftJoin(payment, eq(payment.bookingId, booking.id))
 		.where(eq(booking.id, bookingId));
 	if (!row || (who.side === 'owner' ? row.ownerId : row.installerId) !== who.id) {
 		return refuse(404, 'There is no such booking among yours.');
 	}
-	if (row.status !== 'confirmed') {
+	const cancelled = row.status === 'cancelled' && row.paidAt !== null;
+	if (row.status !== 'confirmed' && !cancelled) {
 		return refuse(409, 'The calendar file is ready once the booking is paid.');
 	}
 	const title = titleOrUntitled(row.title);
@@ -97,7 +101,8 @@ export async function getBookingCalendarFile(
 			location: fitPlace(row),
 			description: `${title} with ${other}, booked on Tapline.`,
 			url: appUrl(bookingPath(who.side, row)),
-			sequence: row.sequence
+			sequence: row.sequence,
+			cancelled
 		})
 	};
 }
