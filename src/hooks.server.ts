@@ -42,6 +42,10 @@ const handleResponse: Handle = async ({ event, resolve }) => {
 		response = new Response(response.body, { status: 503, headers: response.headers });
 		response.headers.set('retry-after', String(RETRY_AFTER_SECONDS));
 	}
+	// A 503 raised anywhere else (the session read in handleSession, an endpoint) asks for the same wait.
+	if (response.status === 503 && !response.headers.has('retry-after')) {
+		response.headers.set('retry-after', String(RETRY_AFTER_SECONDS));
+	}
 	const tiles = tileSource(publicEnv.PUBLIC_TILE_URL);
 	applySecurityHeaders(response.headers, {
 		https: (env.ORIGIN ?? '').startsWith('https://'),

@@ -62,6 +62,7 @@ test('requests answer 503 while PostgreSQL restarts, and the same process serves
 
 		const signedInPage = await get(`${base}/owner`);
 		expect(signedInPage.status).toBe(503);
+		expect(signedInPage.headers.get('retry-after')).toBe('30');
 		expect(await signedInPage.text()).toContain('try again in a minute');
 
 		// A form action whose first query fails.
@@ -71,6 +72,7 @@ test('requests answer 503 while PostgreSQL restarts, and the same process serves
 			headers: { cookie, accept: 'application/json' }
 		});
 		expect(api.status).toBe(503);
+		expect(api.headers.get('retry-after')).toBe('30');
 		expect(((await api.json()) as { message: string }).message).toContain('try again');
 		expect(app.process.exitCode, app.output()).toBeNull();
 	} finally {

@@ -28,8 +28,32 @@ const HOSTILE_TARGETS = [
 	'/\r\n/other.example',
 	'/\\other.example',
 	'//other.example',
-	'https://other.example/'
+	'https://other.example/',
+	// Dot segments that collapse to a path starting `//` (issue 27).
+	'/..//other.example/x',
+	'/./..//other.example/x',
+	'/a/../..//other.example/x',
+	'/%2e%2e//other.example/x',
+	'/%2E%2E//other.example/x',
+	'/.%2e//other.example/x',
+	'/..//\\other.example/x'
 ];
+
+test('a signed-in owner sent to sign-in with a dot-segment target stays on this site in Chromium', async ({
+	ownerPage
+}) => {
+	for (const target of HOSTILE_TARGETS) {
+		// Both spellings of the query: the target encoded once, and as a person would paste it.
+		for (const query of [encodeURIComponent(target), target]) {
+			await ownerPage.goto(`/sign-in?redirectTo=${query}`).catch(() => null);
+			expect({ target, query, onThisSite: onThisSite(ownerPage.url()) }).toEqual({
+				target,
+				query,
+				onThisSite: true
+			});
+		}
+	}
+});
 
 test('signing in goes only to paths on this site, however the target is spelled', async ({
 	request

@@ -16,7 +16,11 @@ export function safeRedirect(target: string | null | undefined, origin: string, 
 	} catch {
 		return fallback;
 	}
-	return url.origin === new URL(origin).origin ? url.pathname + url.search + url.hash : fallback;
+	if (url.origin !== new URL(origin).origin) return fallback;
+	// `new URL('/..//evil.example/x', origin).pathname` is `//evil.example/x`, which a browser reads
+	// as another host: accept only one leading slash followed by anything but a slash or backslash.
+	if (!/^\/(?![/\\])/.test(url.pathname)) return fallback;
+	return url.pathname + url.search + url.hash;
 }
 
 const email = textField({ error: 'Enter your e-mail address' })

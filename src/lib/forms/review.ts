@@ -56,3 +56,16 @@ export const reviewReplySchema = z.object({
 
 export type OwnerReviewForm = z.output<typeof ownerReviewSchema>;
 export type InstallerReviewForm = z.output<typeof installerReviewSchema>;
+
+/**
+ * The star fields of a posted review whose value is not one plain digit from 1 to 5. The form
+ * library reads a whole-number field with `parseInt`, so `1e308` or `3.5` would arrive as 1 or 3;
+ * the posted text is checked here before that reading is trusted.
+ */
+export function starsNotWhole(
+	data: FormData | null,
+	schema: typeof ownerReviewSchema | typeof installerReviewSchema
+): string[] {
+	const fields = Object.keys(schema.shape).filter((field) => field !== 'text');
+	return fields.filter((field) => !/^[1-5]$/.test(String(data?.get(field) ?? '')));
+}

@@ -13,5 +13,8 @@ export const GET: RequestHandler = async ({ params }) => {
 	const response = await objectResponse(
 		params.variant === 'thumb' ? photo.thumbKey : photo.objectKey
 	);
-	return response ?? missingImageResponse();
+	if (!response) return missingImageResponse();
+	// Evidence in a dispute is as private as a receipt: never kept by the browser or a proxy.
+	response.headers.set('cache-control', 'private, no-store');
+	return response;
 };

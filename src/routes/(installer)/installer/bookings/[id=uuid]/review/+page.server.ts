@@ -1,13 +1,14 @@
 import { error, fail } from '@sveltejs/kit';
-import { superValidate } from 'sveltekit-superforms';
+import { setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
-import { installerReviewSchema, reviewReplySchema } from '$lib/forms/review';
+import { installerReviewSchema, reviewReplySchema, starsNotWhole } from '$lib/forms/review';
 import { requireRole } from '$lib/server/http/guards';
 import { redirectWithNotice } from '$lib/server/http/notice';
 import { refusalMessage } from '$lib/server/http/respond';
 import { getReviewPanel, replyToReview, submitReview } from '$lib/server/work/reviews';
 import type { Actions, PageServerLoad } from './$types';
 import { readForm } from '$lib/server/http/read-form';
+import { readFormData } from '$lib/server/http/form-data';
 
 const NOT_FOUND = 'There is no such booking among yours.';
 
@@ -25,8 +26,12 @@ export const load: PageServerLoad = async ({ params }) => {
 export const actions = {
 	review: async ({ params, request, cookies }) => {
 		const installer = requireRole('installer');
-		const form = await readForm(request, zod4(installerReviewSchema));
+		const posted = await readFormData(request);
+		const form = await readForm(posted ?? new FormData(), zod4(installerReviewSchema));
 		if (!form.valid) return fail(400, { form });
+		const notWhole = starsNotWhole(posted, installerReviewSchema);
+		if (notWhole.length > 0)
+			return setError(form, notWhole[0] as never, 'Choose from 1 to 5 stars');
 		const result = await submitReview(params.id, installer.id, 'installer', form.data);
 		if (!result.ok) return refusalMessage(form, result);
 		redirectWithNotice(
