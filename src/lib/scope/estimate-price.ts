@@ -52,6 +52,7 @@ export function percentileCont(values: readonly number[], fraction: number): num
 	const sorted = [...values].sort((a, b) => a - b);
 	const rank = fraction * (sorted.length - 1);
 	const below = Math.floor(rank);
-	const above = Math.ceil(rank);
-	return sorted[below] + (sorted[above] - sorted[below]) * (rank - below);
+	const low = sorted[below] ?? 0;
+	const high = sorted[Math.ceil(rank)] ?? low;
+	return low + (high - low) * (rank - below);
 }
