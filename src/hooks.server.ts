@@ -17,7 +17,8 @@ import { applySecurityHeaders } from '$lib/server/http/security-headers';
 import {
 	isServiceUnavailable,
 	RETRY_AFTER_SECONDS,
-	SERVICE_UNAVAILABLE_MESSAGE
+	SERVICE_UNAVAILABLE_MESSAGE,
+	unavailableResponse
 } from '$lib/server/http/unavailable';
 import { tileSource } from '$lib/map-tiles';
 import { decodedPath, UNREADABLE_ADDRESS_MESSAGE } from '$lib/server/http/address';
@@ -92,7 +93,7 @@ const handleSession: Handle = async ({ event, resolve }) => {
 	try {
 		found = await readSession(event.cookies);
 	} catch (err) {
-		if (isServiceUnavailable(err)) error(503, SERVICE_UNAVAILABLE_MESSAGE);
+		if (isServiceUnavailable(err)) return unavailableResponse(event.request, event.url);
 		throw err;
 	}
 	event.locals.user = found.user;

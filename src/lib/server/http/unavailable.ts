@@ -3,6 +3,7 @@
  * just now": a restart, a failover, a network fault, as opposed to a fault in the request or the
  * code. Such requests are answered with 503 and a retry message (hooks.server.ts), not a 500.
  */
+import errorTemplate from '../../../error.html?raw';
 
 /** SQLSTATEs of a server going away or not taking connections (PostgreSQL manual, Appendix A). */
 const UNAVAILABLE_SQLSTATES = new Set([
@@ -52,3 +53,30 @@ export const SERVICE_UNAVAILABLE_MESSAGE =
 
 /** Seconds a client is asked to wait before retrying (Retry-After). */
 export const RETRY_AFTER_SECONDS = 30;
+
+/**
+ * The 503 for a request that failed inside a hook (the session read), returned rather than thrown:
+ * SvelteKit answers an error thrown from `handle` itself, past the outer hook that adds Retry-After
+ * and the security headers. Pages get the same fallback page as any other error (src/error.html);
+ * API calls, data requests and enhanced forms get `{ message }` as JSON.
+ */
+export function unavailableResponse(request: Request, url: URL): Response {
+	const wantsJson =
+		url.pathname.startsWith('/api/') ||
+		url.pathname.endsWith('/__data.json') ||
+		(request.headers.get('accept') ?? '').includes('application/json');
+	const headers = { 'retry-after': String(RETRY_AFTER_SECONDS), 'cache-control': 'no-store' };
+	if (wantsJson) {
+		return Response.json(
+			{ message: SERVICE_UNAVAILABLE_MESSAGE, retry: true },
+			{ status: 503, headers }
+		);
+	}
+	const page = errorTemplate
+		.replaceAll('%sveltekit.status%', '503')
+		.replaceAll('%sveltekit.error.message%', SERVICE_UNAVAILABLE_MESSAGE);
+	return new Response(page, {
+		status: 503,
+		headers: { ...headers, 'content-type': 'text/html; charset=utf-8' }
+	});
+}
